@@ -1,0 +1,29 @@
+// From a validated design to a mesh, through the Gmsh SDK (OpenCASCADE kernel). The only code that
+// includes gmsh.h lives behind this header. Gmsh is not thread-safe: call these from one thread.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "mesh/geometry.h"
+#include "mesh/mesh.h"
+
+namespace hv {
+
+struct MeshResult {
+  Mesh mesh;
+  MeshStats stats;
+  std::vector<std::string> warnings;  // e.g. a sharp electrode corner (singular field there)
+};
+
+// Builds the geometry of `spec` and checks it: shapes clipped at r < 0, painted in order,
+// electrodes of different potential must not touch, electrodes closed and inside the domain, a
+// ground plane must not cut an electrode, sizes positive. Throws InputError naming the shape.
+// Returns warnings. Writes nothing.
+std::vector<std::string> check_geometry(const GeometrySpec& spec);
+
+// check_geometry, then meshes with curved second-order (or first-order) triangles and reads the
+// mesh back: regions with their permittivity, boundaries classified and ordered into contours.
+MeshResult build_mesh(const GeometrySpec& spec);
+
+}  // namespace hv

@@ -1,0 +1,70 @@
+// The case file (YAML, format 1; see docs/case-file.md and the contract in spec/case-format.md):
+// reading, units, expressions over parameters, `--set` overrides, and errors that name the file,
+// line, column and key path. The only code that includes yaml-cpp lives behind this header.
+#pragma once
+
+#include <cmath>
+#include <string>
+#include <vector>
+
+#include "mesh/base.h"
+#include "mesh/geometry.h"
+
+namespace hv {
+
+// A named parameter after evaluation, in SI units.
+struct Parameter {
+  std::string name;
+  double value = 0.0;  // SI
+  std::string unit;    // SI unit of the value, e.g. "m", "V", "V/m", "" for a pure number
+};
+
+struct GasSpec {
+  std::string name = "air";   // air | sf6 | table (stored lower case)
+  std::string model;          // air: "morrow-lowke" (default) or "quadratic"; empty otherwise
+  std::string table;          // table: path of the CSV, resolved against the case file's folder
+  double pressure_Pa = 101325.0;
+  double temperature_K = 293.15;
+  SourceLocation where;
+};
+
+// The discharge-onset evaluation. Parsed and kept now; evaluated by the onset post-processor.
+struct OnsetSpec {
+  bool present = false;                 // the case has an `onset` section
+  std::string criterion = "streamer";   // streamer | townsend
+  double K = NAN;                       // critical integral; NaN = the gas's default
+  double gamma = NAN;                   // Townsend secondary coefficient; NaN = default
+  std::string polarity = "positive";    // positive | negative | both
+  double operating_V = NAN;             // NaN = highest |potential| of the fixed electrodes
+  double required_margin = NAN;         // NaN = none required
+  SourceLocation where;
+};
+
+struct OutputSpec {
+  std::string dir = "out";  // relative to the current folder
+  bool vtk = true;
+  bool csv = true;
+  bool report = true;
+};
+
+struct Case {
+  std::string file;   // path as given
+  std::string text;   // the file's text, for the report's echo
+  int format = 1;
+  std::string title;
+  std::vector<Parameter> parameters;  // in the order of the file, after --set overrides
+  GeometrySpec geometry;
+  GasSpec gas;
+  OnsetSpec onset;
+  OutputSpec output;
+};
+
+// Reads and validates a case file. `overrides` are "NAME=VALUE" strings from --set, each replacing
+// (or adding) a parameter; VALUE uses the case file's value syntax. Throws InputError on bad input.
+Case read_case(const std::string& path, const std::vector<std::string>& overrides = {});
+
+// The same from text in memory; `file_label` names it in error messages.
+Case parse_case(const std::string& text, const std::string& file_label,
+                const std::vector<std::string>& overrides = {});
+
+}  // namespace hv
