@@ -2,6 +2,7 @@
 // coordinates (r, z) in metres.
 #pragma once
 
+#include <array>
 #include <string>
 #include <utility>
 #include <vector>

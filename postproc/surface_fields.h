@@ -1,0 +1,32 @@
+// Field recovery: the electric field at every node (for maps) and the accurate field on every
+// electrode surface and on both sides of every dielectric interface (for hot spots).
+//
+// Surface field: consistent boundary flux (Carey, Chow & Seager, Comput. Methods Appl. Mech. Eng. 50,
+// 1985). The finite-element residual of the assembled system at the nodes of a boundary is the
+// weighted normal flux there; solving with the boundary mass matrix (weight 2 pi r ds) turns it into
+// the pointwise normal displacement D_n, hence E_n = D_n / (eps0 eps_r) and sigma = D_n. The
+// tangential part comes from the derivative of the potential along the boundary.
+#pragma once
+
+#include <array>
+#include <vector>
+
+#include <Eigen/Core>
+
+#include "mesh/mesh.h"
+#include "postproc/results.h"
+
+namespace hv {
+
+// E = -grad(u) at every mesh node, V/m, as (E_r, E_z): the average over the triangles that share
+// the node. For maps only; use surface_fields() for values on surfaces.
+std::vector<std::array<double, 2>> nodal_field(const Mesh& mesh, const Eigen::VectorXd& potential);
+
+// The recovered field along every electrode (seen from the region beside it, one SurfaceField per
+// electrode name and per region it touches), along the ground plane, and along each side of every
+// gas-dielectric or dielectric-dielectric interface (one SurfaceField per side). Contours follow the
+// mesh boundaries' order, with arc length s from each contour's start. Normal E_n points away from
+// the conductor (into the region it is seen from); on interfaces it points into the region seen from.
+std::vector<SurfaceField> surface_fields(const Mesh& mesh, const Eigen::VectorXd& potential);
+
+}  // namespace hv

@@ -1,0 +1,34 @@
+// The output files of a run (contract: spec/case-format.md, "What run writes"). Every writer writes
+// atomically (a temporary name, then a rename) and throws RunError when it cannot.
+#pragma once
+
+#include <string>
+
+#include "mesh/mesh.h"
+#include "postproc/results.h"
+
+namespace hv {
+
+// summary.json (format "hvstress-summary/1"): the machine-readable results, SI units.
+std::string summary_json(const RunResults& results);
+
+// field.vtu: the mesh (second-order cells for order 2), double precision, zlib-compressed appended
+// data, with point data potential (V), E (V/m, 3 components with 0 for phi), |E| (V/m) and cell data
+// relative permittivity and region id. With `results == nullptr` only the mesh, region id and
+// permittivity are written (the `mesh` command's mesh.vtu).
+void write_field_vtu(const std::string& path, const Mesh& mesh, const RunResults* results);
+
+// surfaces.vtp: every electrode contour and interface side as a polyline with |E|, E_n, E_t, sigma
+// and the arc length s as point data, and the surface name index as cell data.
+void write_surfaces_vtp(const std::string& path, const RunResults& results);
+
+// surface-field.csv: one row per surface point: surface, contour, s_m, r_m, z_m, E_abs_V_per_m,
+// E_n_V_per_m, E_t_V_per_m, sigma_C_per_m2.
+std::string surface_field_csv(const RunResults& results);
+
+// report.md: a readable account of the run: the safety caution, a table per electrode (potential,
+// charge, maximum field and where), the capacitance matrix, energy, mesh statistics, solver figures,
+// timings, warnings, and the case echo with the resolved parameters.
+std::string report_markdown(const RunResults& results);
+
+}  // namespace hv
