@@ -1,1 +1,43 @@
-// (being written)
+// surface-field.csv: one row per surface sample, SI units, comma-separated as in RFC 4180
+// (Shafranov, IETF, 2005).
+#include <string>
+
+#include "postproc/text_format.h"
+#include "postproc/writers.h"
+
+namespace hv {
+
+namespace {
+
+// Ten significant digits: far below the discretization error, still short to read.
+constexpr int kCsvDigits = 10;
+
+// RFC 4180 section 2: a field holding a comma, a quote or a line break is enclosed in quotes, and a
+// quote inside is doubled.
+std::string csv_field(const std::string& text) {
+  if (text.find_first_of(",\"\r\n") == std::string::npos) return text;
+  std::string out = "\"";
+  for (const char c : text) out += c == '"' ? std::string("\"\"") : std::string(1, c);
+  return out + "\"";
+}
+
+std::string csv_row(const std::string& surface, size_t contour, const SurfaceSample& sample) {
+  std::string row = csv_field(surface) + ',' + std::to_string(contour);
+  for (const double value : {sample.s, sample.at.r, sample.at.z, sample.E_abs, sample.E_n, sample.E_t,
+                             sample.sigma})
+    row += ',' + significant(value, kCsvDigits);
+  return row + '\n';
+}
+
+}  // namespace
+
+std::string surface_field_csv(const RunResults& results) {
+  std::string out = "surface,contour,s_m,r_m,z_m,E_abs_V_per_m,E_n_V_per_m,E_t_V_per_m,sigma_C_per_m2\n";
+  for (const SurfaceField& surface : results.surfaces)
+    for (size_t contour = 0; contour < surface.contours.size(); ++contour)
+      for (const SurfaceSample& sample : surface.contours[contour])
+        out += csv_row(surface.name, contour, sample);
+  return out;
+}
+
+}  // namespace hv

@@ -1,1 +1,204 @@
-// (being written)
+// summary.json, written by hand: the schema is small and fixed, and a JSON library would be one
+// more dependency for ~100 lines. Grammar and escaping follow RFC 8259 (Bray, IETF, 2017).
+#include <cmath>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "postproc/text_format.h"
+#include "postproc/writers.h"
+
+namespace hv {
+
+namespace {
+
+// A JSON string literal. RFC 8259 section 7: the quotation mark, the reverse solidus and the control
+// characters U+0000..U+001F must be escaped; all other text (UTF-8 included) passes through.
+std::string json_string(const std::string& text) {
+  static const char* const hex_digits = "0123456789abcdef";
+  std::string out = "\"";
+  for (const char c : text) {
+    const auto byte = static_cast<unsigned char>(c);
+    switch (c) {
+      case '"': out += "\\\""; break;
+      case '\\': out += "\\\\"; break;
+      case '\b': out += "\\b"; break;
+      case '\f': out += "\\f"; break;
+      case '\n': out += "\\n"; break;
+      case '\r': out += "\\r"; break;
+      case '\t': out += "\\t"; break;
+      default:
+        if (byte < 0x20) {
+          out += "\\u00";
+          out += hex_digits[byte >> 4];
+          out += hex_digits[byte & 0xF];
+        } else {
+          out += c;
+        }
+    }
+  }
+  return out + "\"";
+}
+
+// JSON has no NaN or infinity (RFC 8259 section 6): a value that is not finite is written as null.
+std::string json_number(double value) {
+  return std::isfinite(value) ? round_trip_number(value) : "null";
+}
+
+std::string json_integer(long long value) { return std::to_string(value); }
+
+std::string json_bool(bool value) { return value ? "true" : "false"; }
+
+// Already rendered values on one line: [a, b, c].
+std::string json_array(const std::vector<std::string>& items) {
+  std::string out = "[";
+  for (size_t i = 0; i < items.size(); ++i) out += (i ? ", " : "") + items[i];
+  return out + "]";
+}
+
+std::string json_point(const Point& at) { return json_array({json_number(at.r), json_number(at.z)}); }
+
+std::string json_string_array(const std::vector<std::string>& texts) {
+  std::vector<std::string> items;
+  for (const std::string& text : texts) items.push_back(json_string(text));
+  return json_array(items);
+}
+
+// (key, rendered value) pairs of one object, in writing order.
+using Members = std::vector<std::pair<std::string, std::string>>;
+
+// An object with one member per line, its members indented one level deeper than `depth`
+// (two spaces per level), so that nested objects line up when rendered with depth + 1.
+std::string json_object(const Members& members, int depth) {
+  if (members.empty()) return "{}";
+  const std::string inner(2 * static_cast<size_t>(depth + 1), ' ');
+  std::string out = "{\n";
+  for (size_t i = 0; i < members.size(); ++i) {
+    out += inner + json_string(members[i].first) + ": " + members[i].second;
+    out += i + 1 < members.size() ? ",\n" : "\n";
+  }
+  return out + std::string(2 * static_cast<size_t>(depth), ' ') + "}";
+}
+
+std::string parameters_object(const RunResults& results, int depth) {
+  Members members;
+  for (const auto& [name, value] : results.parameters) members.emplace_back(name, json_number(value));
+  return json_object(members, depth);
+}
+
+// The SI unit text of every parameter that has one.
+std::string parameter_units_object(const RunResults& results, int depth) {
+  Members members;
+  for (size_t i = 0; i < results.parameters.size() && i < results.parameter_units.size(); ++i)
+    members.emplace_back(results.parameters[i].first, json_string(results.parameter_units[i]));
+  return json_object(members, depth);
+}
+
+// The figures of a mesh; `order` is 0 when the mesh itself is not at hand (written as null).
+Members mesh_members(int order, const MeshStats& stats) {
+  return {{"order", order > 0 ? json_integer(order) : "null"},
+          {"nodes", json_integer(stats.nodes)},
+          {"triangles", json_integer(stats.triangles)},
+          {"boundary_edges", json_integer(stats.boundary_edges)},
+          {"dropped_degenerate", json_integer(stats.dropped_degenerate)},
+          {"min_size_m", json_number(stats.min_size)},
+          {"max_size_m", json_number(stats.max_size)}};
+}
+
+std::string mesh_object(const RunResults& results, int depth) {
+  Members members = mesh_members(results.mesh ? results.mesh->order : 0, results.mesh_stats);
+  members.emplace_back("dofs", json_integer(results.solve_report.dofs));
+  return json_object(members, depth);
+}
+
+std::string solver_object(const RunResults& results, int depth) {
+  const SolveReport& report = results.solve_report;
+  Members members{{"ok", json_bool(report.ok)},
+                  {"method", json_string(report.method)},
+                  {"dofs", json_integer(report.dofs)},
+                  {"factor_nonzeros", json_integer(report.factor_nonzeros)},
+                  {"relative_residual", json_number(report.relative_residual)},
+                  {"seconds_assemble", json_number(report.seconds_assemble)},
+                  {"seconds_factorize", json_number(report.seconds_factorize)},
+                  {"seconds_solve", json_number(report.seconds_solve)}};
+  if (!report.message.empty()) members.emplace_back("message", json_string(report.message));
+  return json_object(members, depth);
+}
+
+std::string electrodes_object(const RunResults& results, int depth) {
+  Members members;
+  for (const ElectrodeResult& electrode : results.electrodes) {
+    members.emplace_back(electrode.name,
+                         json_object({{"potential_V", json_number(electrode.potential_V)},
+                                      {"floating", json_bool(electrode.floating)},
+                                      {"charge_C", json_number(electrode.charge_C)},
+                                      {"max_field_V_per_m", json_number(electrode.max_field_V_per_m)},
+                                      {"max_field_at_m", json_point(electrode.max_field_at)}},
+                                     depth + 1));
+  }
+  return json_object(members, depth);
+}
+
+// Rows on one line each, in the order of `electrodes` in the case.
+std::string capacitance_matrix(const RunResults& results, int depth) {
+  const Eigen::MatrixXd& matrix = results.capacitance_F;
+  if (matrix.rows() == 0) return "[]";
+  const std::string inner(2 * static_cast<size_t>(depth + 1), ' ');
+  std::string out = "[\n";
+  for (Eigen::Index i = 0; i < matrix.rows(); ++i) {
+    std::vector<std::string> row;
+    for (Eigen::Index j = 0; j < matrix.cols(); ++j) row.push_back(json_number(matrix(i, j)));
+    out += inner + json_array(row) + (i + 1 < matrix.rows() ? ",\n" : "\n");
+  }
+  return out + std::string(2 * static_cast<size_t>(depth), ' ') + "]";
+}
+
+std::string timings_object(const Timings& timings, int depth) {
+  return json_object({{"mesh", json_number(timings.mesh)},
+                      {"assemble", json_number(timings.assemble)},
+                      {"solve", json_number(timings.solve)},
+                      {"post", json_number(timings.post)},
+                      {"total", json_number(timings.total)}},
+                     depth);
+}
+
+}  // namespace
+
+std::string summary_json(const RunResults& results) {
+  std::vector<std::string> electrode_names;
+  for (const ElectrodeResult& electrode : results.electrodes) electrode_names.push_back(electrode.name);
+
+  Members members{
+      {"format", json_string("hvstress-summary/1")},
+      {"version", json_string(results.version)},
+      {"title", json_string(results.title)},
+      {"case_file", json_string(results.case_file)},
+      {"parameters", parameters_object(results, 1)},
+      {"parameter_units", parameter_units_object(results, 1)},
+      {"mesh", mesh_object(results, 1)},
+      {"solver", solver_object(results, 1)},
+      {"electrodes", electrodes_object(results, 1)},
+      // JSON objects are unordered; this fixes the order of the capacitance rows and columns.
+      {"capacitance_order", json_string_array(electrode_names)},
+      {"max_field", json_object({{"V_per_m", json_number(results.max_field_V_per_m)},
+                                 {"electrode", json_string(results.max_field_electrode)},
+                                 {"at_m", json_point(results.max_field_at)}},
+                                1)},
+      {"capacitance_matrix_F", capacitance_matrix(results, 1)},
+      {"energy_J", json_number(results.energy_J)},
+  };
+  if (results.has_ground_plane)
+    members.emplace_back("ground_plane_charge_C", json_number(results.ground_plane_charge_C));
+  members.emplace_back("timings_s", timings_object(results.timings, 1));
+  members.emplace_back("warnings", json_string_array(results.warnings));
+  return json_object(members, 0) + "\n";
+}
+
+std::string mesh_summary_json(const Mesh& mesh, const MeshStats& stats) {
+  Members members = mesh_members(mesh.order, stats);
+  members.insert(members.begin(), {"format", json_string("hvstress-mesh/1")});
+  members.emplace_back("seconds", json_number(stats.seconds));
+  return json_object(members, 0) + "\n";
+}
+
+}  // namespace hv

@@ -1,1 +1,195 @@
-// (being written)
+// report.md: the run told for a high-voltage engineer. Engineering units here (kV, kV/mm, mm, pF);
+// the machine-readable files keep SI.
+#include <algorithm>
+#include <cmath>
+#include <string>
+#include <vector>
+
+#include "postproc/text_format.h"
+#include "postproc/writers.h"
+
+namespace hv {
+
+namespace {
+
+// Four significant digits: enough to compare designs, few enough to read.
+constexpr int kReportDigits = 4;
+
+std::string fixed_unit(double value_si, double unit_in_si) {
+  return significant(value_si / unit_in_si, kReportDigits);
+}
+std::string kV(double volts) { return fixed_unit(volts, 1e3); }
+std::string kV_per_mm(double volts_per_metre) { return fixed_unit(volts_per_metre, 1e6); }
+std::string mm(double metres) { return fixed_unit(metres, 1e-3); }
+std::string pF(double farads) { return fixed_unit(farads, 1e-12); }
+std::string r_z_mm(const Point& at) { return mm(at.r) + ", " + mm(at.z); }
+
+// The value with the SI prefix that puts it in [1, 1000): 3.3e-9 C -> "3.3 nC".
+std::string with_prefix(double value, const std::string& unit) {
+  static const struct {
+    double scale;
+    const char* prefix;
+  } prefixes[] = {{1e9, "G"}, {1e6, "M"}, {1e3, "k"}, {1, ""}, {1e-3, "m"}, {1e-6, "µ"}, {1e-9, "n"},
+                  {1e-12, "p"}, {1e-15, "f"}};
+  const double magnitude = std::abs(value);
+  if (!std::isfinite(value) || magnitude == 0.0) return significant(value, kReportDigits) + " " + unit;
+  for (const auto& [scale, prefix] : prefixes)
+    if (magnitude >= scale) return significant(value / scale, kReportDigits) + " " + prefix + unit;
+  return significant(value, kReportDigits) + " " + unit;
+}
+
+// Text for one table cell: a '|' would end the cell and a line break the row.
+std::string cell(const std::string& text) {
+  std::string out;
+  for (const char c : text) {
+    if (c == '|') out += "\\|";
+    else if (c == '\n' || c == '\r') out += ' ';
+    else out += c;
+  }
+  return out;
+}
+
+std::string table_row(const std::vector<std::string>& cells) {
+  std::string out = "|";
+  for (const std::string& text : cells) out += " " + text + " |";
+  return out + "\n";
+}
+
+std::string table_header(const std::vector<std::string>& headings) {
+  return table_row(headings) + table_row(std::vector<std::string>(headings.size(), "---"));
+}
+
+std::string one_line(const std::string& text) {
+  std::string out = text;
+  std::replace(out.begin(), out.end(), '\n', ' ');
+  std::replace(out.begin(), out.end(), '\r', ' ');
+  return out;
+}
+
+// ---- sections ----
+
+std::string title_and_caution(const RunResults& results) {
+  const std::string title = results.title.empty() ? "hvstress results" : one_line(results.title);
+  return "# " + title + "\n\n" +
+         "> **Caution.** High voltage can kill. These results are a design aid, not proof of safety: "
+         "verify every design by test, and follow the local codes, standards and licensed practice.\n\n" +
+         "Case `" + results.case_file + "`, hvstress " + results.version + ".\n\n";
+}
+
+std::string headline(const RunResults& results) {
+  return "## Headline\n\nHighest surface field: **" + kV_per_mm(results.max_field_V_per_m) +
+         " kV/mm** on electrode **" + one_line(results.max_field_electrode) + "** at r = " +
+         mm(results.max_field_at.r) + " mm, z = " + mm(results.max_field_at.z) + " mm.\n\n";
+}
+
+std::string electrodes_table(const RunResults& results) {
+  std::string out = "## Electrodes\n\n";
+  out += table_header({"electrode", "potential (kV)", "floating", "charge", "max field (kV/mm)",
+                       "at r, z (mm)"});
+  for (const ElectrodeResult& electrode : results.electrodes)
+    out += table_row({cell(electrode.name), kV(electrode.potential_V), electrode.floating ? "yes" : "no",
+                      with_prefix(electrode.charge_C, "C"), kV_per_mm(electrode.max_field_V_per_m),
+                      r_z_mm(electrode.max_field_at)});
+  out += "\n";
+  const bool any_floating = std::any_of(results.electrodes.begin(), results.electrodes.end(),
+                                        [](const ElectrodeResult& electrode) { return electrode.floating; });
+  if (any_floating) out += "Floating electrodes show the potential at which their net charge is zero.\n";
+  if (results.has_ground_plane)
+    out += "Charge on the ground plane: " + with_prefix(results.ground_plane_charge_C, "C") + ".\n";
+  return out + "\n";
+}
+
+// Maxwell capacitance matrix: the charge on row electrode per volt on column electrode, the
+// others at 0 V (diagonal positive, off-diagonal negative).
+std::string capacitance_section(const RunResults& results) {
+  const Eigen::MatrixXd& matrix = results.capacitance_F;
+  std::string out = "## Capacitance matrix (pF)\n\n"
+                    "Charge on the row electrode per volt on the column electrode, the others at 0 V.\n\n";
+  std::vector<std::string> headings{"pF"};
+  for (const ElectrodeResult& electrode : results.electrodes) headings.push_back(cell(electrode.name));
+  out += table_header(headings);
+  for (Eigen::Index i = 0; i < matrix.rows(); ++i) {
+    std::vector<std::string> row{i < static_cast<Eigen::Index>(results.electrodes.size())
+                                     ? cell(results.electrodes[static_cast<size_t>(i)].name)
+                                     : std::to_string(i)};
+    for (Eigen::Index j = 0; j < matrix.cols(); ++j) row.push_back(pF(matrix(i, j)));
+    out += table_row(row);
+  }
+  return out + "\nStored energy: " + with_prefix(results.energy_J, "J") + ".\n\n";
+}
+
+std::string mesh_section(const RunResults& results) {
+  const MeshStats& stats = results.mesh_stats;
+  std::string out = "## Mesh\n\n";
+  if (results.mesh)
+    out += results.mesh->order == 2 ? "- curved second-order triangles (6 nodes)\n"
+                                    : "- straight first-order triangles (3 nodes)\n";
+  out += "- " + std::to_string(stats.nodes) + " nodes, " + std::to_string(stats.triangles) +
+         " triangles, " + std::to_string(stats.boundary_edges) + " boundary edges\n";
+  out += "- element edges from " + mm(stats.min_size) + " mm to " + mm(stats.max_size) + " mm\n";
+  out += "- degenerate triangles removed: " + std::to_string(stats.dropped_degenerate) + "\n\n";
+  return out;
+}
+
+std::string solver_section(const RunResults& results) {
+  const SolveReport& report = results.solve_report;
+  std::string out = "## Solver\n\n";
+  out += "- method: " + report.method + (report.ok ? "" : " (failed: " + one_line(report.message) + ")") + "\n";
+  out += "- unknowns: " + std::to_string(report.dofs) + "\n";
+  out += "- nonzeros of the factor: " + std::to_string(report.factor_nonzeros) + "\n";
+  out += "- worst relative residual: " + significant(report.relative_residual, 3) + "\n\n";
+  return out;
+}
+
+std::string timings_section(const Timings& timings) {
+  std::string out = "## Timings\n\n" + table_header({"stage", "seconds"});
+  const std::pair<const char*, double> stages[] = {{"mesh", timings.mesh},
+                                                   {"assemble", timings.assemble},
+                                                   {"solve", timings.solve},
+                                                   {"post-processing", timings.post},
+                                                   {"total", timings.total}};
+  for (const auto& [stage, seconds] : stages) out += table_row({stage, significant(seconds, 3)});
+  return out + "\n";
+}
+
+std::string warnings_section(const RunResults& results) {
+  std::string out = "## Warnings\n\n";
+  if (results.warnings.empty()) return out + "None.\n\n";
+  for (const std::string& warning : results.warnings) out += "- " + one_line(warning) + "\n";
+  return out + "\n";
+}
+
+std::string parameters_section(const RunResults& results) {
+  std::string out = "## Parameters (resolved, SI)\n\n" + table_header({"name", "value", "unit"});
+  for (size_t i = 0; i < results.parameters.size(); ++i) {
+    const std::string unit = i < results.parameter_units.size() ? results.parameter_units[i] : "";
+    out += table_row({cell(results.parameters[i].first), significant(results.parameters[i].second, 10),
+                      cell(unit)});
+  }
+  return out + "\n";
+}
+
+// The case file verbatim, in a code fence longer than any run of backticks inside it
+// (CommonMark 0.30, section 4.5: a fence closes only with at least as many backticks).
+std::string case_echo(const RunResults& results) {
+  size_t longest_run = 0, run = 0;
+  for (const char c : results.case_text) {
+    run = c == '`' ? run + 1 : 0;
+    longest_run = std::max(longest_run, run);
+  }
+  const std::string fence(std::max<size_t>(3, longest_run + 1), '`');
+  std::string text = results.case_text;
+  if (!text.empty() && text.back() != '\n') text += '\n';
+  return "## Case\n\n" + fence + "yaml\n" + text + fence + "\n";
+}
+
+}  // namespace
+
+std::string report_markdown(const RunResults& results) {
+  return title_and_caution(results) + headline(results) + electrodes_table(results) +
+         capacitance_section(results) + mesh_section(results) + solver_section(results) +
+         timings_section(results.timings) + warnings_section(results) + parameters_section(results) +
+         case_echo(results);
+}
+
+}  // namespace hv

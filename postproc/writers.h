@@ -12,6 +12,10 @@ namespace hv {
 // summary.json (format "hvstress-summary/1"): the machine-readable results, SI units.
 std::string summary_json(const RunResults& results);
 
+// summary.json of the `mesh` command (format "hvstress-mesh/1"): order, node and triangle counts,
+// boundary edges, element sizes (m), dropped degenerate triangles, seconds.
+std::string mesh_summary_json(const Mesh& mesh, const MeshStats& stats);
+
 // field.vtu: the mesh (second-order cells for order 2), double precision, zlib-compressed appended
 // data, with point data potential (V), E (V/m, 3 components with 0 for phi), |E| (V/m) and cell data
 // relative permittivity and region id. With `results == nullptr` only the mesh, region id and
