@@ -1,0 +1,71 @@
+// Runs the hvstress binary as a user would, in a fresh temporary folder, and captures what it says.
+#pragma once
+
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+#include <string>
+
+namespace hv::testing {
+
+struct Invocation {
+  int exit_code = -1;
+  std::string out;
+  std::string err;
+};
+
+inline std::string read_text(const std::filesystem::path& path) {
+  std::ifstream in(path);
+  std::stringstream text;
+  text << in.rdbuf();
+  return text.str();
+}
+
+// A temporary working folder, removed with everything in it at the end of the test.
+class Sandbox {
+ public:
+  Sandbox() {
+    std::string pattern = (std::filesystem::temp_directory_path() / "hvstress-test-XXXXXX").string();
+    root_ = ::mkdtemp(pattern.data());
+  }
+  ~Sandbox() {
+    std::error_code ignored;
+    std::filesystem::remove_all(root_, ignored);
+  }
+  const std::filesystem::path& root() const { return root_; }
+
+  std::filesystem::path write(const std::string& name, const std::string& text) const {
+    std::ofstream(root_ / name) << text;
+    return root_ / name;
+  }
+
+  // Runs `hvstress ARGS` with the sandbox as the current folder.
+  Invocation hvstress(const std::string& args) const {
+    const std::string command = "cd '" + root_.string() + "' && OPENBLAS_NUM_THREADS=1 '" HV_BINARY "' " + args +
+                                " >stdout.txt 2>stderr.txt";
+    Invocation result;
+    const int status = std::system(command.c_str());
+    result.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+    result.out = read_text(root_ / "stdout.txt");
+    result.err = read_text(root_ / "stderr.txt");
+    return result;
+  }
+
+  // True when nothing but the captured output and `keep` lives in the sandbox.
+  bool holds_only(const std::string& keep) const {
+    for (const auto& entry : std::filesystem::directory_iterator(root_)) {
+      const std::string name = entry.path().filename().string();
+      if (name != keep && name != "stdout.txt" && name != "stderr.txt") return false;
+    }
+    return true;
+  }
+
+ private:
+  std::filesystem::path root_;
+};
+
+}  // namespace hv::testing
