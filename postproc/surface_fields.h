@@ -2,10 +2,12 @@
 // electrode surface and on both sides of every dielectric interface (for hot spots).
 //
 // Surface field: consistent boundary flux (Carey, Chow & Seager, Comput. Methods Appl. Mech. Eng. 50,
-// 1985). The finite-element residual of the assembled system at the nodes of a boundary is the
-// weighted normal flux there; solving with the boundary mass matrix (weight 2 pi r ds) turns it into
-// the pointwise normal displacement D_n, hence E_n = D_n / (eps0 eps_r) and sigma = D_n. The
-// tangential part comes from the derivative of the potential along the boundary.
+// 1985). The residual of one region's element equations at the nodes of a boundary is the weighted
+// normal flux there; dividing by the lumped boundary mass (row sums, weight 2 pi r ds) turns it into
+// the pointwise normal displacement D_n, hence E_n = D_n / (eps0 eps_r) and sigma = D_n. Faces meeting
+// at a corner or junction share a node's residual; see surface_fields.cpp. Pointwise accuracy is
+// second order in h for P2 (measured: 0.02 % on coaxial cylinders with h = a/16). The tangential
+// part comes from the derivative of the potential along the boundary.
 #pragma once
 
 #include <array>
@@ -26,7 +28,12 @@ std::vector<std::array<double, 2>> nodal_field(const Mesh& mesh, const Eigen::Ve
 // electrode name and per region it touches), along the ground plane, and along each side of every
 // gas-dielectric or dielectric-dielectric interface (one SurfaceField per side). Contours follow the
 // mesh boundaries' order, with arc length s from each contour's start. Normal E_n points away from
-// the conductor (into the region it is seen from); on interfaces it points into the region seen from.
+// the conductor (into the region it is seen from); on interfaces it points into the region seen from,
+// so the two sides of an interface have D_n of opposite sign. E_t is -du/ds along the direction of
+// travel. One sample per contour node (vertices and mid nodes in order); a closed contour (a torus)
+// ends with its first node again, at s = its length. Where a boundary borders several regions, each
+// stretch is a contour of the field seen from that region. Interface names are
+// "<region seen from>|<other region>". Throws RunError if the mesh's boundaries are not triangle sides.
 std::vector<SurfaceField> surface_fields(const Mesh& mesh, const Eigen::VectorXd& potential);
 
 }  // namespace hv

@@ -17,6 +17,7 @@
 #include <vector>
 
 #include <Eigen/Core>
+#include <Eigen/SparseCore>
 
 #include "mesh/mesh.h"
 
@@ -56,6 +57,13 @@ struct FieldSolution {
   double energy_J = 0.0;                      // 1/2 integral of D.E over the domain
   SolveReport report;
 };
+
+// The assembled system matrix over all mesh nodes, without eps0 (multiply by eps0 for F):
+//   K_ij = integral of eps_r grad(N_i) . grad(N_j) 2 pi r dr dz
+//        + integral over the Open boundaries of eps_r (c / R) N_i N_j 2 pi r ds,
+// with c = far_field_c and R the distance from mesh.open_center. No conductor condition is applied, so
+// with far_field_c = 0 (or no Open boundary) a constant lies in its null space. Symmetric, n x n.
+Eigen::SparseMatrix<double> stiffness_matrix(const Mesh& mesh, double far_field_c);
 
 // Solves the problem. Throws InputError when the problem is ill-posed (no fixed potential, a floating
 // conductor that no field reaches), RunError when the linear algebra fails.
