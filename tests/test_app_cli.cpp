@@ -156,7 +156,7 @@ INSTANTIATE_TEST_SUITE_P(
         BadInput{"unknown_override", "", "", "--set Q=3", "--set"},
         BadInput{"override_wrong_dimension", "", "", "--set \"R=5 kV\"", "R"},
         BadInput{"unknown_option", "", "", "--frobnicate", "frobnicate"}),
-    [](const ::testing::TestParamInfo<BadInput>& info) { return std::string(info.param.label); });
+    [](const ::testing::TestParamInfo<BadInput>& param) { return std::string(param.param.label); });
 
 TEST(Cli, MissingCaseFileIsBadInput) {
   Sandbox box;
@@ -194,8 +194,8 @@ std::vector<std::string> bundled_cases() {
 }
 
 INSTANTIATE_TEST_SUITE_P(Cases, BundledCase, ::testing::ValuesIn(bundled_cases()),
-                         [](const ::testing::TestParamInfo<std::string>& info) {
-                           std::string name = fs::path(info.param).stem().string();
+                         [](const ::testing::TestParamInfo<std::string>& param) {
+                           std::string name = fs::path(param.param).stem().string();
                            for (char& c : name) if (c == '-') c = '_';
                            return name;
                          });

@@ -32,6 +32,7 @@ int main(int argc, char** argv) {
   app.footer(kCaution);
   app.set_version_flag("--version", std::string("hvstress ") + HV_VERSION);
   app.require_subcommand(1);
+  app.fallthrough();  // --quiet may follow the subcommand
 
   hv::CommandOptions options;
   app.add_flag("-q,--quiet", options.quiet, "no progress lines on stderr");

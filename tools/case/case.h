@@ -59,8 +59,11 @@ struct Case {
   OutputSpec output;
 };
 
-// Reads and validates a case file. `overrides` are "NAME=VALUE" strings from --set, each replacing
-// (or adding) a parameter; VALUE uses the case file's value syntax. Throws InputError on bad input.
+// Reads and validates a case file into SI values. `overrides` are "NAME=VALUE" strings from --set,
+// each replacing the value of an existing parameter before later parameters are evaluated; VALUE
+// uses the case file's value syntax. Throws InputError on bad input, placed at file:line:col and
+// key path (a --set error names "--set NAME" instead). Geometry that needs the mesher to judge
+// (touching or overlapping shapes, open paths) is left to the mesher.
 Case read_case(const std::string& path, const std::vector<std::string>& overrides = {});
 
 // The same from text in memory; `file_label` names it in error messages.
