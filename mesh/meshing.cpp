@@ -1,7 +1,7 @@
 // Meshing a design through the Gmsh SDK 4.8 (OpenCASCADE kernel):
 //  1. build, paint and check the geometry in model units (mesh/occ_model.cpp);
 //  2. size the elements: on each electrode's surface its surface size h (mesh.surface_size, else
-//     2 pi R_min / 25 from its smallest radius of curvature, so at least 24 elements per turn, else
+//     2 pi R_min / 61 from its smallest radius of curvature, so at least 60 elements per turn, else
 //     1/8 of its bounding box's shorter side), growing linearly away from it, h + (growth - 1) d,
 //     up to max_size. Default max_size: a tenth of the domain's size (the open radius, or the
 //     box's longer side);
@@ -118,9 +118,14 @@ int read_triangles(const PaintedModel& model, int order, Mesh& mesh, ElectrodeEd
   std::vector<size_t> node_tags;
   std::vector<double> coords, parametric;
   gmsh::model::mesh::getNodes(node_tags, coords, parametric, -1, -1, true, false);
+  // Nodes on the axis come back from OCC with |r| of order 1e-16, sometimes negative; the solver and
+  // the surface-field recovery recognise the axis by r == 0 exactly (the weight 2 pi r vanishes).
+  constexpr double kAxisSnap = 1e-9;  // model units (fractions of the model's extent)
   std::unordered_map<size_t, Point> position;
-  for (size_t i = 0; i < node_tags.size(); ++i)
-    position[node_tags[i]] = {coords[3 * i] * model.length_scale, coords[3 * i + 1] * model.length_scale};
+  for (size_t i = 0; i < node_tags.size(); ++i) {
+    const double x = std::abs(coords[3 * i]) <= kAxisSnap ? 0.0 : coords[3 * i];
+    position[node_tags[i]] = {x * model.length_scale, coords[3 * i + 1] * model.length_scale};
+  }
 
   std::unordered_map<size_t, int> index_of;
   auto index = [&](size_t tag) {

@@ -146,13 +146,31 @@ struct Outline {
   std::unordered_map<int, std::vector<int>> edges_at_node;
 };
 
-// eps_r E_n (V/m, normal into the region) at the nodes of one face, in chain order: the residual
-// divided by the face's lumped boundary mass integral of N_i 2 pi r ds (row sums of the mass matrix;
-// the consistent mass matrix of P2 amplifies the residual's small node-to-node errors into
-// oscillations). Where the face meets another outline face (a corner, a triple junction, the open
-// boundary), the other face's share of the residual is taken out with its directly computed flux.
-// On the axis the weight 2 pi r makes the P2 vertex's integral vanish; there the field is even in
-// arc length (the surface crosses the axis at a right angle), so dq/ds = 0 fixes the pole value.
+// A face that ends on the axis crosses it at a right angle, so the flux is even in the distance d
+// from the pole: q = q_pole + c d^2 near it. The one-sided hat at the pole would average over the
+// rising side only, so the pole takes the value of that parabola through the next two vertices.
+void fix_pole(const Mesh& mesh, const std::vector<int>& nodes, size_t step, std::vector<double>& flux, size_t end) {
+  const Point pole = mesh.nodes[static_cast<size_t>(nodes[end])];
+  if (pole.r != 0.0 || nodes.size() < 2 * step + 1) return;
+  const size_t first = end == 0 ? step : end - step, second = end == 0 ? 2 * step : end - 2 * step;
+  auto squared_distance = [&](size_t k) {
+    const Point p = mesh.nodes[static_cast<size_t>(nodes[k])];
+    return (p.r - pole.r) * (p.r - pole.r) + (p.z - pole.z) * (p.z - pole.z);
+  };
+  const double d1 = squared_distance(first), d2 = squared_distance(second);
+  const double curvature = (flux[second] - flux[first]) / (d2 - d1);
+  flux[end] = flux[first] - curvature * d1;
+}
+
+// eps_r E_n (V/m, normal into the region) at the nodes of one face, in chain order, from the
+// residual at its nodes and the lumped boundary mass (row sums of the mass matrix of N_i 2 pi r ds;
+// the consistent P2 mass matrix amplifies the residual's small node-to-node errors into oscillations).
+// For P2 the flux is taken in the P1 subspace, whose hat function at a vertex is N_vertex plus half of
+// each neighbouring mid node's N: its residual averages out the alternating vertex / mid-node errors of
+// P2 residuals (measured on a sphere: 0.35 % down to 0.03 %), and it stays defined on the axis, where
+// the integral of a P2 vertex's N_i 2 pi r vanishes. Mid nodes take the mean of their two vertices.
+// Where the face meets another outline face (a corner, a triple junction, the open boundary), the
+// other face's share of the residual is taken out with its directly computed flux.
 std::vector<double> face_flux(const Mesh& mesh, const Eigen::VectorXd& potential, const MeshEdges& edges,
                               const Outline& outline, const std::vector<BoundaryEdge>& face) {
   std::unordered_map<int, double> weight;
@@ -165,7 +183,7 @@ std::vector<double> face_flux(const Mesh& mesh, const Eigen::VectorXd& potential
     }
   }
   const std::vector<int> nodes = chain_nodes(face);
-  std::vector<double> flux;
+  std::vector<double> share, mass;
   for (int node : nodes) {
     double own_share = outline.residual.at(node);
     for (int e : outline.edges_at_node.at(node)) {
@@ -175,16 +193,20 @@ std::vector<double> face_flux(const Mesh& mesh, const Eigen::VectorXd& potential
       for (size_t i = 0; i < 3; ++i)
         if (other.nodes[i] == node) own_share -= moments[i];
     }
-    const bool on_axis = mesh.nodes[static_cast<size_t>(node)].r == 0.0;
-    flux.push_back(on_axis ? 0.0 : own_share / weight.at(node));
+    share.push_back(own_share);
+    mass.push_back(weight.at(node));
   }
-  // dq/ds = 0 at a pole: P2 edge (pole, far vertex, mid) gives -3 q_pole - q_far + 4 q_mid = 0.
-  const size_t step = mesh.order == 2 ? 2 : 1;
-  // P1: the pole takes its neighbour's value.
-  auto pole_value = [&](size_t next, size_t far) { return mesh.order == 2 ? (4 * flux[next] - flux[far]) / 3 : flux[next]; };
-  const size_t last = flux.size() - 1;
-  if (mesh.nodes[static_cast<size_t>(nodes.front())].r == 0.0) flux.front() = pole_value(1, step);
-  if (mesh.nodes[static_cast<size_t>(nodes.back())].r == 0.0) flux.back() = pole_value(last - 1, last - step);
+  const size_t step = mesh.order == 2 ? 2 : 1;  // from one vertex to the next in chain order
+  std::vector<double> flux(nodes.size(), 0.0);
+  for (size_t k = 0; k < nodes.size(); k += step) {
+    double residual = share[k], lumped = mass[k];
+    if (step == 2 && k > 0) residual += 0.5 * share[k - 1], lumped += 0.5 * mass[k - 1];
+    if (step == 2 && k + 1 < nodes.size()) residual += 0.5 * share[k + 1], lumped += 0.5 * mass[k + 1];
+    flux[k] = residual / lumped;
+  }
+  fix_pole(mesh, nodes, step, flux, 0);
+  fix_pole(mesh, nodes, step, flux, nodes.size() - 1);
+  for (size_t k = 1; step == 2 && k < nodes.size(); k += 2) flux[k] = 0.5 * (flux[k - 1] + flux[k + 1]);
   return flux;
 }
 

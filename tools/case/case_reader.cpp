@@ -410,14 +410,24 @@ class CaseReader {
     for (const Entry& member : members) {
       check_parameter_name(member);
       const auto override_text = replaced.find(member.key);
-      const Quantity quantity =
-          override_text != replaced.end()
-              ? evaluate_expression(override_text->second, variables_, SourceLocation{"", 0, 0, "--set " + member.key})
-              : evaluate_expression(scalar(member, case_key(member.pattern)), variables_, value_place(member));
+      const Quantity in_case = evaluate_expression(scalar(member, case_key(member.pattern)), variables_, value_place(member));
+      const Quantity quantity = override_text == replaced.end() ? in_case : overridden(member.key, override_text->second, in_case);
       variables_[member.key] = quantity;
       parameters.push_back({member.key, quantity.value, si_symbol(quantity.dimension)});
     }
     return parameters;
+  }
+
+  // The value of `--set NAME=text`. It must measure what the case's own value measures (a length
+  // stays a length), unless the case gives a bare number, whose meaning depends on where it is used.
+  Quantity overridden(const std::string& name, const std::string& text, const Quantity& in_case) const {
+    const SourceLocation place{"", 0, 0, "--set " + name};
+    const Quantity quantity = evaluate_expression(text, variables_, place);
+    if (!in_case.dimension.is_dimensionless() && quantity.dimension != in_case.dimension)
+      throw InputError(place, "the case gives `" + name + "` as " + describe_dimension(in_case.dimension) + ", got " +
+                                  describe_dimension(quantity.dimension),
+                       "Give a value with a unit of " + describe_dimension(in_case.dimension));
+    return quantity;
   }
 
   void check_parameter_name(const Entry& member) const {
