@@ -21,8 +21,8 @@ std::string csv_field(const std::string& text) {
   return out + "\"";
 }
 
-std::string csv_row(const std::string& surface, size_t contour, const SurfaceSample& sample) {
-  std::string row = csv_field(surface) + ',' + std::to_string(contour);
+std::string csv_row(const std::string& surface, const std::string& region, size_t contour, const SurfaceSample& sample) {
+  std::string row = csv_field(surface) + ',' + csv_field(region) + ',' + std::to_string(contour);
   for (const double value : {sample.s, sample.at.r, sample.at.z, sample.E_abs, sample.E_n, sample.E_t,
                              sample.sigma})
     row += ',' + significant(value, kCsvDigits);
@@ -32,11 +32,15 @@ std::string csv_row(const std::string& surface, size_t contour, const SurfaceSam
 }  // namespace
 
 std::string surface_field_csv(const RunResults& results) {
-  std::string out = "surface,contour,s_m,r_m,z_m,E_abs_V_per_m,E_n_V_per_m,E_t_V_per_m,sigma_C_per_m2\n";
-  for (const SurfaceField& surface : results.surfaces)
+  std::string out = "surface,region,contour,s_m,r_m,z_m,E_abs_V_per_m,E_n_V_per_m,E_t_V_per_m,sigma_C_per_m2\n";
+  for (const SurfaceField& surface : results.surfaces) {
+    // The region the field is evaluated in: an electrode touching gas and a solid has a row for each.
+    const bool known = results.mesh && surface.region >= 0 && surface.region < static_cast<int>(results.mesh->regions.size());
+    const std::string region = known ? results.mesh->regions[static_cast<size_t>(surface.region)].name : "";
     for (size_t contour = 0; contour < surface.contours.size(); ++contour)
       for (const SurfaceSample& sample : surface.contours[contour])
-        out += csv_row(surface.name, contour, sample);
+        out += csv_row(surface.name, region, contour, sample);
+  }
   return out;
 }
 

@@ -133,7 +133,9 @@ std::string electrodes_object(const RunResults& results, int depth) {
                                       {"floating", json_bool(electrode.floating)},
                                       {"charge_C", json_number(electrode.charge_C)},
                                       {"max_field_V_per_m", json_number(electrode.max_field_V_per_m)},
-                                      {"max_field_at_m", json_point(electrode.max_field_at)}},
+                                      {"max_field_at_m", json_point(electrode.max_field_at)},
+                                      {"max_gas_field_V_per_m", json_number(electrode.max_gas_field_V_per_m)},
+                                      {"max_gas_field_at_m", json_point(electrode.max_gas_field_at)}},
                                      depth + 1));
   }
   return json_object(members, depth);

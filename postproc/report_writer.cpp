@@ -85,12 +85,13 @@ std::string headline(const RunResults& results) {
 std::string electrodes_table(const RunResults& results) {
   std::string out = "## Electrodes\n\n";
   out += table_header({"electrode", "potential (kV)", "floating", "charge", "max field (kV/mm)",
-                       "at r, z (mm)"});
+                       "at r, z (mm)", "max in gas (kV/mm)", "at r, z (mm)"});
   for (const ElectrodeResult& electrode : results.electrodes)
     out += table_row({cell(electrode.name), kV(electrode.potential_V), electrode.floating ? "yes" : "no",
                       with_prefix(electrode.charge_C, "C"), kV_per_mm(electrode.max_field_V_per_m),
-                      r_z_mm(electrode.max_field_at)});
-  out += "\n";
+                      r_z_mm(electrode.max_field_at), kV_per_mm(electrode.max_gas_field_V_per_m),
+                      r_z_mm(electrode.max_gas_field_at)});
+  out += "\nThe field in the gas decides corona; the field on a solid side stresses the insulation.\n";
   const bool any_floating = std::any_of(results.electrodes.begin(), results.electrodes.end(),
                                         [](const ElectrodeResult& electrode) { return electrode.floating; });
   if (any_floating) out += "Floating electrodes show the potential at which their net charge is zero.\n";

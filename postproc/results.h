@@ -39,8 +39,10 @@ struct ElectrodeResult {
   bool floating = false;
   double potential_V = 0.0;
   double charge_C = 0.0;
-  double max_field_V_per_m = 0.0;
+  double max_field_V_per_m = 0.0;      // highest |E| on the surface, on any side (gas or solid)
   Point max_field_at;
+  double max_gas_field_V_per_m = 0.0;  // highest |E| on the gas side: what decides corona
+  Point max_gas_field_at;
 };
 
 struct Timings {

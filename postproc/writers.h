@@ -26,7 +26,8 @@ void write_field_vtu(const std::string& path, const Mesh& mesh, const RunResults
 // and the arc length s as point data, and the surface name index as cell data.
 void write_surfaces_vtp(const std::string& path, const RunResults& results);
 
-// surface-field.csv: one row per surface point: surface, contour, s_m, r_m, z_m, E_abs_V_per_m,
+// surface-field.csv: one row per surface point: surface, region (the field is evaluated in), contour,
+// s_m, r_m, z_m, E_abs_V_per_m,
 // E_n_V_per_m, E_t_V_per_m, sigma_C_per_m2.
 std::string surface_field_csv(const RunResults& results);
 

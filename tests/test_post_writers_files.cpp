@@ -85,8 +85,8 @@ RunResults sample_results(const Mesh& mesh) {
     results.potential[i] = 1000.0 * (i + 1) / 7.0;
     results.node_field.push_back({1e6 * (i + 1.0 / 3.0), -1e6 * i / 9.0});
   }
-  results.electrodes = {{"hv", false, 1e5, 3.3e-9, 3.456e6, {0.0123, 0.0456}},
-                        {kShield, true, 42.1e3, 0.0, 1.5e6, {0.002, 0.5}}};
+  results.electrodes = {{"hv", false, 1e5, 3.3e-9, 3.456e6, {0.0123, 0.0456}, 2.5e6, {0.02, 0.03}},
+                        {kShield, true, 42.1e3, 0.0, 1.5e6, {0.002, 0.5}, 1.5e6, {0.002, 0.5}}};
   results.max_field_electrode = "hv";
   results.max_field_V_per_m = 3.456e6;
   results.max_field_at = {0.0123, 0.0456};
@@ -420,15 +420,16 @@ TEST_F(Writers, SurfacesVtpHasOnePolylinePerContourWithExactValues) {
 TEST_F(Writers, SurfaceFieldCsvHasHeaderAndOneRowPerSample) {
   const std::vector<std::string> lines = split(surface_field_csv(results_), '\n');
   ASSERT_EQ(lines.size(), 1u + 14u);
-  EXPECT_EQ(lines[0], "surface,contour,s_m,r_m,z_m,E_abs_V_per_m,E_n_V_per_m,E_t_V_per_m,sigma_C_per_m2");
+  EXPECT_EQ(lines[0], "surface,region,contour,s_m,r_m,z_m,E_abs_V_per_m,E_n_V_per_m,E_t_V_per_m,sigma_C_per_m2");
   // Row 5: surface "hv", contour 1, its second sample; 10 significant digits leave a relative
   // error below 5e-10.
   const std::vector<std::string> fields = split(lines[5], ',');
-  ASSERT_EQ(fields.size(), 9u);
+  ASSERT_EQ(fields.size(), 10u);
   EXPECT_EQ(fields[0], "hv");
-  EXPECT_EQ(fields[1], "1");
+  EXPECT_EQ(fields[1], mesh_.regions[static_cast<size_t>(results_.surfaces[0].region)].name);
+  EXPECT_EQ(fields[2], "1");
   const SurfaceSample& expected = results_.surfaces[0].contours[1][1];
-  const std::vector<double> values = numbers(fields, 2);
+  const std::vector<double> values = numbers(fields, 3);
   const double wanted[] = {expected.s,   expected.at.r, expected.at.z, expected.E_abs,
                            expected.E_n, expected.E_t,  expected.sigma};
   for (size_t k = 0; k < 7; ++k) EXPECT_NEAR(values[k], wanted[k], 5e-10 * std::abs(wanted[k])) << k;
@@ -437,7 +438,7 @@ TEST_F(Writers, SurfaceFieldCsvHasHeaderAndOneRowPerSample) {
 TEST_F(Writers, SurfaceFieldCsvQuotesNamesAsRfc4180) {
   // RFC 4180 section 2, rules 6 and 7: enclose in quotes, double the quotes inside.
   const std::vector<std::string> lines = split(surface_field_csv(results_), '\n');
-  EXPECT_EQ(lines[9].rfind("\"shield \"\"B\"\", upper\",0,", 0), 0u) << lines[9];
+  EXPECT_EQ(lines[9].rfind("\"shield \"\"B\"\", upper\",", 0), 0u) << lines[9];
 }
 
 // ---- report.md ----
@@ -451,8 +452,8 @@ TEST_F(Writers, ReportShowsCautionHeadlineAndEngineeringUnits) {
                         "z = 45.6 mm."),
             std::string::npos);
   // 1e5 V = 100 kV, 3.3e-9 C = 3.3 nC, 42.1e3 V = 42.1 kV, 1.5e6 V/m = 1.5 kV/mm, 0.5 m = 500 mm.
-  EXPECT_NE(report.find("| hv | 100 | no | 3.3 nC | 3.456 | 12.3, 45.6 |\n"), std::string::npos);
-  EXPECT_NE(report.find("| shield \"B\", upper | 42.1 | yes | 0 C | 1.5 | 2, 500 |\n"), std::string::npos);
+  EXPECT_NE(report.find("| hv | 100 | no | 3.3 nC | 3.456 | 12.3, 45.6 | 2.5 | 20, 30 |\n"), std::string::npos);
+  EXPECT_NE(report.find("| shield \"B\", upper | 42.1 | yes | 0 C | 1.5 | 2, 500 | 1.5 | 2, 500 |\n"), std::string::npos);
   // 12.5e-12 F = 12.5 pF; 7e-12/3 F = 2.333 pF to four digits.
   EXPECT_NE(report.find("| hv | 12.5 | -3.25 |\n"), std::string::npos);
   EXPECT_NE(report.find("| shield \"B\", upper | -3.25 | 2.333 |\n"), std::string::npos);

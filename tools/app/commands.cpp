@@ -24,13 +24,14 @@ void print_warnings(const std::vector<std::string>& warnings) {
 
 // The short table on stdout: one row per electrode, then the headline and where the files are.
 void print_run_table(const RunResults& results, const std::string& folder) {
-  std::printf("%-16s %12s %9s %14s %14s %22s\n", "electrode", "potential kV", "floating", "charge nC",
-              "max |E| kV/mm", "at (r, z) mm");
+  std::printf("%-16s %12s %9s %14s %14s %20s %14s %20s\n", "electrode", "potential kV", "floating", "charge nC",
+              "max |E| kV/mm", "at (r, z) mm", "in gas kV/mm", "at (r, z) mm");
   for (const ElectrodeResult& electrode : results.electrodes) {
-    std::printf("%-16s %12.3f %9s %14.4f %14.4f %10.2f, %10.2f\n", electrode.name.c_str(),
+    std::printf("%-16s %12.3f %9s %14.4f %14.4f %9.2f, %9.2f %14.4f %9.2f, %9.2f\n", electrode.name.c_str(),
                 electrode.potential_V / 1e3, electrode.floating ? "yes" : "no", electrode.charge_C * 1e9,
-                electrode.max_field_V_per_m / 1e6, electrode.max_field_at.r * 1e3,
-                electrode.max_field_at.z * 1e3);
+                electrode.max_field_V_per_m / 1e6, electrode.max_field_at.r * 1e3, electrode.max_field_at.z * 1e3,
+                electrode.max_gas_field_V_per_m / 1e6, electrode.max_gas_field_at.r * 1e3,
+                electrode.max_gas_field_at.z * 1e3);
   }
   std::printf("highest surface field %.4f kV/mm on %s at r = %.2f mm, z = %.2f mm\n",
               results.max_field_V_per_m / 1e6, results.max_field_electrode.c_str(),

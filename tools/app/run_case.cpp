@@ -19,17 +19,22 @@ void announce(const StepListener& on_step, const std::string& step) {
   if (on_step) on_step(step);
 }
 
-// The highest recovered |E| on each conductor's surfaces, with its place.
+// The highest recovered |E| on each conductor's surfaces, with its place, on any side and on the
+// gas side.
 void fill_electrode_maxima(RunResults& results) {
+  auto raise = [](double& highest, Point& at, const SurfaceSample& sample) {
+    if (sample.E_abs <= highest) return;
+    highest = sample.E_abs;
+    at = sample.at;
+  };
   for (const SurfaceField& surface : results.surfaces) {
     if (surface.conductor < 0 || surface.conductor >= static_cast<int>(results.electrodes.size())) continue;
     ElectrodeResult& electrode = results.electrodes[static_cast<size_t>(surface.conductor)];
+    const bool in_gas = results.mesh->regions[static_cast<size_t>(surface.region)].is_gas;
     for (const auto& contour : surface.contours) {
       for (const SurfaceSample& sample : contour) {
-        if (sample.E_abs > electrode.max_field_V_per_m) {
-          electrode.max_field_V_per_m = sample.E_abs;
-          electrode.max_field_at = sample.at;
-        }
+        raise(electrode.max_field_V_per_m, electrode.max_field_at, sample);
+        if (in_gas) raise(electrode.max_gas_field_V_per_m, electrode.max_gas_field_at, sample);
       }
     }
   }
