@@ -5,6 +5,7 @@
 
 #include <exception>
 #include <string>
+#include <utility>
 
 #include "mesh/base.h"
 
@@ -19,10 +20,10 @@ class GmshSession {
   GmshSession& operator=(const GmshSession&) = delete;
 };
 
-// Runs `work` and turns what Gmsh 4.8 throws (a std::string, or a std::exception) into a
-// RunError that says what we were doing; our own InputError and RunError pass through.
-template <class Work>
-auto run_gmsh(const std::string& doing, Work&& work) -> decltype(work()) {
+// Runs `work` and turns what Gmsh 4.8 throws (a std::string, or a std::exception) into the error
+// that `make_error(message)` returns; our own InputError and RunError pass through.
+template <class Work, class MakeError>
+auto translate_gmsh_errors(Work&& work, MakeError&& make_error) -> decltype(work()) {
   try {
     return work();
   } catch (const InputError&) {
@@ -30,10 +31,18 @@ auto run_gmsh(const std::string& doing, Work&& work) -> decltype(work()) {
   } catch (const RunError&) {
     throw;
   } catch (const std::string& message) {
-    throw RunError("Gmsh failed while " + doing + ": " + message);
+    throw make_error(message);
   } catch (const std::exception& error) {
-    throw RunError("Gmsh failed while " + doing + ": " + error.what());
+    throw make_error(std::string(error.what()));
   }
+}
+
+// Gmsh failing at `doing`: a RunError (exit 1) that says what we were doing.
+template <class Work>
+auto run_gmsh(const std::string& doing, Work&& work) -> decltype(work()) {
+  return translate_gmsh_errors(std::forward<Work>(work), [&](const std::string& message) {
+    return RunError("Gmsh failed while " + doing + ": " + message);
+  });
 }
 
 // The same for work whose failure is caused by the input at `where` (e.g. an outline OpenCASCADE
@@ -41,17 +50,9 @@ auto run_gmsh(const std::string& doing, Work&& work) -> decltype(work()) {
 template <class Work>
 auto run_gmsh_on_input(const SourceLocation& where, const std::string& doing, const std::string& hint, Work&& work)
     -> decltype(work()) {
-  try {
-    return work();
-  } catch (const InputError&) {
-    throw;
-  } catch (const RunError&) {
-    throw;
-  } catch (const std::string& message) {
-    throw InputError(where, doing + " failed in Gmsh: " + message, hint);
-  } catch (const std::exception& error) {
-    throw InputError(where, doing + " failed in Gmsh: " + error.what(), hint);
-  }
+  return translate_gmsh_errors(std::forward<Work>(work), [&](const std::string& message) {
+    return InputError(where, doing + " failed in Gmsh: " + message, hint);
+  });
 }
 
 }  // namespace hv
