@@ -85,8 +85,10 @@ const std::vector<CaseKey>& case_keys() {
 
       {"mesh", T::Section, K::Number, "automatic", "mesh controls"},
       {"mesh.order", T::Integer, K::Number, "2", "1: straight 3-node triangles, 2: curved 6-node triangles"},
-      {"mesh.surface_size", T::Value, K::Length, "from curvature", "element size on electrode surfaces"},
-      {"mesh.max_size", T::Value, K::Length, "automatic", "largest element anywhere"},
+      {"mesh.surface_size", T::Value, K::Length, "60 per turn of curvature",
+       "element size on electrode surfaces (default: 60 elements per full turn of the smallest radius, or 1/8 of the shorter side of a straight-edged electrode)"},
+      {"mesh.max_size", T::Value, K::Length, "domain size / 10",
+       "largest element anywhere (default: a tenth of the open radius or of the box's longer side)"},
       {"mesh.growth", T::Value, K::Number, "1.3", "largest size ratio of neighbouring elements, above 1"},
 
       {"gas", T::Section, K::Number, "air", "the insulating gas around the shapes"},
