@@ -3,6 +3,7 @@
 #pragma once
 
 #include <array>
+#include <cmath>
 #include <string>
 #include <utility>
 #include <vector>
@@ -10,6 +11,7 @@
 #include <Eigen/Core>
 
 #include "mesh/mesh.h"
+#include "postproc/onset.h"
 #include "solver/field_solver.h"
 
 namespace hv {
@@ -22,6 +24,8 @@ struct SurfaceSample {
   double E_n = 0.0;    // normal component, V/m, positive pointing out of the conductor / into region
   double E_t = 0.0;    // tangential component along the direction of travel, V/m
   double sigma = 0.0;  // surface charge density, C/m^2 (conductors; free charge); 0 on interfaces
+  double inception_V = NAN;  // local inception voltage (onset evaluation; NaN where not evaluated)
+  double margin = NAN;       // inception_V / operating voltage
 };
 
 // The field along one boundary, seen from one region: an electrode surface (seen from the region
@@ -69,6 +73,7 @@ struct RunResults {
   double ground_plane_charge_C = 0.0;
   bool has_ground_plane = false;
   std::vector<SurfaceField> surfaces;
+  OnsetResult onset;                           // evaluated when the case has an `onset` section
   std::vector<std::string> warnings;
   Timings timings;
   std::string version;

@@ -31,6 +31,16 @@ void write_surfaces_vtp(const std::string& path, const RunResults& results);
 // E_n_V_per_m, E_t_V_per_m, sigma_C_per_m2.
 std::string surface_field_csv(const RunResults& results);
 
+// onset.csv: one row per onset start point: electrode, s_m, r_m, z_m, E at operating (V/m), criterion
+// integral at operating, inception voltage (V), margin, polarity, line end reason. Only when
+// results.onset.evaluated.
+std::string onset_csv(const RunResults& results);
+
+// fieldlines.vtp: every traced line as a polyline with point data |E|, alpha_eff and the running
+// criterion integral, all at the line's own inception voltage (at operating when it has none), and
+// cell data start index and end reason.
+void write_fieldlines_vtp(const std::string& path, const RunResults& results, const GasModel& gas);
+
 // report.md: a readable account of the run: the safety caution, a table per electrode (potential,
 // charge, maximum field and where), the capacitance matrix, energy, mesh statistics, solver figures,
 // timings, warnings, and the case echo with the resolved parameters.

@@ -9,6 +9,8 @@
 
 #include "mesh/base.h"
 #include "mesh/geometry.h"
+#include "postproc/gas.h"
+#include "postproc/onset.h"
 
 namespace hv {
 
@@ -17,27 +19,6 @@ struct Parameter {
   std::string name;
   double value = 0.0;  // SI
   std::string unit;    // SI unit of the value, e.g. "m", "V", "V/m", "" for a pure number
-};
-
-struct GasSpec {
-  std::string name = "air";   // air | sf6 | table (stored lower case)
-  std::string model;          // air: "morrow-lowke" (default) or "quadratic"; empty otherwise
-  std::string table;          // table: path of the CSV, resolved against the case file's folder
-  double pressure_Pa = 101325.0;
-  double temperature_K = 293.15;
-  SourceLocation where;
-};
-
-// The discharge-onset evaluation. Parsed and kept now; evaluated by the onset post-processor.
-struct OnsetSpec {
-  bool present = false;                 // the case has an `onset` section
-  std::string criterion = "streamer";   // streamer | townsend
-  double K = NAN;                       // critical integral; NaN = the gas's default
-  double gamma = NAN;                   // Townsend secondary coefficient; NaN = default
-  std::string polarity = "positive";    // positive | negative | both
-  double operating_V = NAN;             // NaN = highest |potential| of the fixed electrodes
-  double required_margin = NAN;         // NaN = none required
-  SourceLocation where;
 };
 
 struct OutputSpec {
