@@ -109,6 +109,8 @@ const std::vector<CaseKey>& case_keys() {
       {"onset.operating", T::Value, K::Voltage, "highest fixed potential", "the voltage the margin refers to"},
       {"onset.required_margin", T::Value, K::Number, "none",
        "least inception margin; `run` exits with 3 below it"},
+      {"onset.start_points", T::Integer, K::Number, "from the mesh",
+       "at least this many field-line start points on the electrodes in all"},
 
       {"output", T::Section, K::Number, "all on", "what `run` writes"},
       {"output.dir", T::Text, K::Number, "out", "output folder, relative to the current folder"},

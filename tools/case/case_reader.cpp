@@ -775,6 +775,12 @@ class CaseReader {
     }
     if (const auto operating = fields.get("operating")) onset.operating_V = value(*operating);
     if (const auto margin = fields.get("required_margin")) onset.required_margin = positive(*margin);
+    if (const auto starts = fields.get("start_points")) {
+      onset.start_points = integer(*starts);
+      if (onset.start_points < 1 || onset.start_points > 1000000)
+        fail(*starts, "the number of start points must lie between 1 and 1000000, got " + std::to_string(onset.start_points),
+             "Leave it out to take the start points from the mesh, or write e.g. `5000`");
+    }
     return onset;
   }
 
