@@ -141,18 +141,26 @@ std::string electrodes_object(const RunResults& results, int depth) {
   return json_object(members, depth);
 }
 
+// Already rendered items, one per line, indented one level deeper than `depth` (objects among them
+// rendered with depth + 1 line up).
+std::string json_block_array(const std::vector<std::string>& items, int depth) {
+  if (items.empty()) return "[]";
+  const std::string inner(2 * static_cast<size_t>(depth + 1), ' ');
+  std::string out = "[\n";
+  for (size_t i = 0; i < items.size(); ++i) out += inner + items[i] + (i + 1 < items.size() ? ",\n" : "\n");
+  return out + std::string(2 * static_cast<size_t>(depth), ' ') + "]";
+}
+
 // Rows on one line each, in the order of `electrodes` in the case.
 std::string capacitance_matrix(const RunResults& results, int depth) {
   const Eigen::MatrixXd& matrix = results.capacitance_F;
-  if (matrix.rows() == 0) return "[]";
-  const std::string inner(2 * static_cast<size_t>(depth + 1), ' ');
-  std::string out = "[\n";
+  std::vector<std::string> rows;
   for (Eigen::Index i = 0; i < matrix.rows(); ++i) {
     std::vector<std::string> row;
     for (Eigen::Index j = 0; j < matrix.cols(); ++j) row.push_back(json_number(matrix(i, j)));
-    out += inner + json_array(row) + (i + 1 < matrix.rows() ? ",\n" : "\n");
+    rows.push_back(json_array(row));
   }
-  return out + std::string(2 * static_cast<size_t>(depth), ' ') + "]";
+  return json_block_array(rows, depth);
 }
 
 std::string timings_object(const Timings& timings, int depth) {
@@ -162,6 +170,75 @@ std::string timings_object(const Timings& timings, int depth) {
                       {"post", json_number(timings.post)},
                       {"total", json_number(timings.total)}},
                      depth);
+}
+
+// ---- onset ----
+
+// Where an inception voltage lies, the voltage and its margin. kNoInception (not reached in the
+// searched range) has no JSON form: it is written as null beside an explicit "inception_found": false.
+Members inception_members(const std::string& electrode, double inception_V, double margin, const Point& at) {
+  const bool found = std::isfinite(inception_V);
+  return {{"electrode", electrode.empty() ? "null" : json_string(electrode)},
+          {"inception_found", json_bool(found)},
+          {"inception_voltage_V", json_number(inception_V)},
+          {"margin", json_number(margin)},
+          {"at_m", found ? json_point(at) : "null"}};
+}
+
+std::string onset_electrodes(const OnsetResult& onset, int depth) {
+  std::vector<std::string> items;
+  for (const ElectrodeOnset& electrode : onset.electrodes)
+    items.push_back(json_object(
+        inception_members(electrode.electrode, electrode.inception_V, electrode.margin, electrode.at), depth + 1));
+  return json_block_array(items, depth);
+}
+
+std::string onset_regions(const OnsetResult& onset, int depth) {
+  std::vector<std::string> items;
+  for (const OnsetRegion& region : onset.regions)
+    items.push_back(json_object({{"electrode", json_string(region.electrode)},
+                                 {"s_from_m", json_number(region.s_from)},
+                                 {"s_to_m", json_number(region.s_to)},
+                                 {"from_m", json_point(region.from)},
+                                 {"to_m", json_point(region.to)},
+                                 {"lowest_margin", json_number(region.lowest_margin)}},
+                                depth + 1));
+  return json_block_array(items, depth);
+}
+
+std::string gas_state_object(const OnsetResult& onset, int depth) {
+  return json_object({{"pressure_Pa", json_number(onset.pressure_Pa)},
+                      {"temperature_K", json_number(onset.temperature_K)},
+                      {"relative_density", json_number(onset.relative_density)},
+                      {"number_density_per_m3", json_number(onset.number_density)},
+                      {"critical_field_V_per_m", json_number(onset.critical_field_V_per_m)}},
+                     depth);
+}
+
+// The lowest inception voltage with the contract's keys (electrode, inception_voltage_V, margin, at_m,
+// criterion, K, gas), then the resolved settings, the per-electrode results, the onset regions and the
+// gas state.
+std::string onset_object(const OnsetResult& onset, int depth) {
+  const OnsetSettings& settings = onset.settings;
+  Members members = inception_members(onset.electrode, onset.inception_V, onset.margin, onset.at);
+  const Members more{{"criterion", json_string(settings.criterion)},
+                     {"K", json_number(settings.K)},
+                     {"gamma", json_number(settings.gamma)},
+                     {"gas", json_string(onset.gas.key)},
+                     {"gas_title", json_string(onset.gas.title)},
+                     {"polarity", json_string(settings.polarity)},
+                     {"operating_V", json_number(settings.operating_V)},
+                     {"solved_V", json_number(settings.solved_V)},
+                     {"required_margin", json_number(settings.required_margin)},
+                     {"meets_required_margin", json_bool(onset.meets_required_margin())},
+                     {"electrodes", onset_electrodes(onset, depth + 1)},
+                     {"regions", onset_regions(onset, depth + 1)},
+                     {"gas_state", gas_state_object(onset, depth + 1)},
+                     {"start_points", json_integer(static_cast<long long>(onset.starts.size()))},
+                     {"seconds", json_number(onset.seconds)},
+                     {"warnings", json_string_array(onset.warnings)}};
+  members.insert(members.end(), more.begin(), more.end());
+  return json_object(members, depth);
 }
 
 }  // namespace
@@ -191,6 +268,7 @@ std::string summary_json(const RunResults& results) {
   };
   if (results.has_ground_plane)
     members.emplace_back("ground_plane_charge_C", json_number(results.ground_plane_charge_C));
+  if (results.onset.evaluated) members.emplace_back("onset", onset_object(results.onset, 1));
   members.emplace_back("timings_s", timings_object(results.timings, 1));
   members.emplace_back("warnings", json_string_array(results.warnings));
   return json_object(members, 0) + "\n";

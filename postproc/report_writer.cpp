@@ -119,6 +119,111 @@ std::string capacitance_section(const RunResults& results) {
   return out + "\nStored energy: " + with_prefix(results.energy_J, "J") + ".\n\n";
 }
 
+// ---- discharge onset ----
+
+std::string kPa(double pascals) { return fixed_unit(pascals, 1e3); }
+std::string degC(double kelvin) { return significant(kelvin - 273.15, kReportDigits); }
+
+// An inception voltage in kV, or the words for kNoInception.
+std::string inception_kV(double volts) { return std::isfinite(volts) ? kV(volts) : "none found"; }
+std::string margin_text(double margin) { return std::isfinite(margin) ? significant(margin, kReportDigits) : "none found"; }
+
+std::string onset_headline(const OnsetResult& onset) {
+  const OnsetSettings& settings = onset.settings;
+  std::string out;
+  if (std::isfinite(onset.inception_V))
+    out += "Lowest inception voltage: **" + kV(onset.inception_V) + " kV** on electrode **" +
+           one_line(onset.electrode) + "** at r = " + mm(onset.at.r) + " mm, z = " + mm(onset.at.z) + " mm.\n\n";
+  else
+    out += "No inception found: the criterion is not met at any start point within the voltage range "
+           "searched.\n\n";
+  out += "Margin against the operating voltage of " + kV(settings.operating_V) + " kV: **" +
+         margin_text(onset.margin) + "**";
+  if (std::isnan(settings.required_margin)) return out + " (no margin required).\n\n";
+  return out + " (required " + significant(settings.required_margin, kReportDigits) + ": " +
+         (onset.meets_required_margin() ? "met" : "**NOT met**") + ").\n\n";
+}
+
+std::string onset_electrodes_table(const OnsetResult& onset) {
+  std::string out = table_header({"electrode", "inception (kV)", "margin", "at r, z (mm)"});
+  for (const ElectrodeOnset& electrode : onset.electrodes) {
+    const bool found = std::isfinite(electrode.inception_V);
+    out += table_row({cell(electrode.electrode), inception_kV(electrode.inception_V), margin_text(electrode.margin),
+                      found ? r_z_mm(electrode.at) : "-"});
+  }
+  return out + "\n";
+}
+
+// The stretches of electrode surface whose local inception voltage is below the threshold.
+std::string onset_regions_list(const OnsetResult& onset) {
+  const OnsetSettings& settings = onset.settings;
+  const std::string threshold = std::isnan(settings.required_margin)
+                                    ? "the operating voltage"
+                                    : "operating x required margin (" +
+                                          kV(settings.operating_V * settings.required_margin) + " kV)";
+  std::string out = "Onset regions, where the local inception voltage lies below " + threshold + ":";
+  if (onset.regions.empty()) return out + " none.\n\n";
+  out += "\n\n" + table_header({"electrode", "from r, z (mm)", "to r, z (mm)", "s (mm)", "lowest margin"});
+  for (const OnsetRegion& region : onset.regions)
+    out += table_row({cell(region.electrode), r_z_mm(region.from), r_z_mm(region.to),
+                      mm(region.s_from) + " to " + mm(region.s_to), significant(region.lowest_margin, kReportDigits)});
+  return out + "\n";
+}
+
+std::string onset_criterion(const OnsetSettings& settings) {
+  std::string out = settings.criterion == "townsend"
+                        ? "- criterion: Townsend generation, gamma x integral of alpha exp(integral of alpha_eff) "
+                          "from the cathode = 1, with gamma = " + significant(settings.gamma, kReportDigits) + "\n"
+                        : "- criterion: streamer, the integral of alpha_eff over the ionization zone reaches K = " +
+                              significant(settings.K, kReportDigits) + "\n";
+  out += "- polarity: " + settings.polarity +
+         (settings.polarity == "both" ? " (the lower inception voltage of the two is shown)" : "") + "\n";
+  out += "- all fixed potentials are scaled together: a voltage here is the largest |fixed potential| of the "
+         "case, and the field at voltage U is U / " + kV(settings.solved_V) + " kV times the solved field\n";
+  return out;
+}
+
+// The altitude factor of IEC 60071-2, K_a = exp(m H / 8150 m), for context only. The altitude of
+// the site is not an input, so H is the altitude whose air has this relative density under the
+// exponential atmosphere with the same 8150 m scale height, delta = exp(-H / 8150 m); then
+// K_a = 1 / delta for m = 1 (power frequency and lightning impulse).
+std::string altitude_context(double delta) {
+  const std::string prefix = "- altitude factor K_a = exp(m H / 8150 m) of IEC 60071-2, for context only, not part of "
+                             "the criterion (which uses delta directly): ";
+  if (!(delta < 1.0))
+    return prefix + "this air is at least as dense as the reference atmosphere, so no altitude "
+                    "correction applies (K_a = 1)\n";
+  const double altitude_m = 8150.0 * std::log(1.0 / delta);
+  return prefix + "this delta matches an altitude of about " + std::to_string(std::lround(altitude_m)) +
+         " m by delta = exp(-H / 8150 m), where K_a = 1 / delta = " + significant(1.0 / delta, kReportDigits) +
+         " (m = 1); the site's own altitude is not an input\n";
+}
+
+std::string onset_gas(const OnsetResult& onset) {
+  std::string out = "- gas: " + one_line(onset.gas.title) + " (`" + onset.gas.key + "`)\n";
+  out += "- state: p = " + kPa(onset.pressure_Pa) + " kPa, T = " + degC(onset.temperature_K) +
+         " degC, relative density delta = " + significant(onset.relative_density, kReportDigits) +
+         " (IEC 60060-1: 101.3 kPa, 293 K); critical field (alpha_eff = 0) " +
+         kV_per_mm(onset.critical_field_V_per_m) + " kV/mm\n";
+  return out + altitude_context(onset.relative_density);
+}
+
+std::string onset_section(const OnsetResult& onset) {
+  std::string out = "## Discharge onset\n\n" + onset_headline(onset) + onset_electrodes_table(onset) +
+                    onset_regions_list(onset) + onset_criterion(onset.settings) + onset_gas(onset);
+  out += "- " + std::to_string(onset.starts.size()) + " start points, " + significant(onset.seconds, 3) + " s\n\n";
+  out += "Onset warnings:";
+  if (onset.warnings.empty()) out += " none.\n";
+  else {
+    out += "\n\n";
+    for (const std::string& warning : onset.warnings) out += "- " + one_line(warning) + "\n";
+  }
+  return out + "\n> **Caution.** Computed inception voltages are engineering estimates. Inception must be "
+               "confirmed by test to the applicable standards (e.g. IEC 60060-1 for high-voltage test "
+               "techniques, IEC 60270 for partial-discharge measurement), and work must follow local codes "
+               "and licensed practice.\n\n";
+}
+
 std::string mesh_section(const RunResults& results) {
   const MeshStats& stats = results.mesh_stats;
   std::string out = "## Mesh\n\n";
@@ -188,7 +293,8 @@ std::string case_echo(const RunResults& results) {
 
 std::string report_markdown(const RunResults& results) {
   return title_and_caution(results) + headline(results) + electrodes_table(results) +
-         capacitance_section(results) + mesh_section(results) + solver_section(results) +
+         capacitance_section(results) + (results.onset.evaluated ? onset_section(results.onset) : "") +
+         mesh_section(results) + solver_section(results) +
          timings_section(results.timings) + warnings_section(results) + parameters_section(results) +
          case_echo(results);
 }

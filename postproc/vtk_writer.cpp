@@ -1,7 +1,8 @@
-// field.vtu and surfaces.vtp through VTK's XML writers. The r-z half plane is drawn as VTK's z = 0
+// field.vtu, surfaces.vtp and fieldlines.vtp through VTK's XML writers. The r-z half plane is drawn as VTK's z = 0
 // plane: x = r, y = z. Writer settings and the node order of second-order triangles were checked
 // on this VTK version (shared/deps.md, section 6): our P2 triangle (vertices counter-clockwise, then
 // the mid nodes of edges 01, 12, 20) is VTK_QUADRATIC_TRIANGLE without permutation.
+#include <algorithm>
 #include <cmath>
 #include <string>
 #include <vector>
@@ -132,6 +133,76 @@ vtkNew<vtkDoubleArray> sample_array(const char* name, const RunResults& results,
   return array;
 }
 
+// Local inception voltage (V) and margin at every sample (NaN where no start point lies), and
+// onset_flag: 1 where the local inception voltage lies below operating x required margin (below the
+// operating voltage when no margin is required), the test that also bounds the onset regions.
+void add_onset_arrays(const RunResults& results, vtkIdType n_samples, vtkPointData& point_data) {
+  const OnsetSettings& settings = results.onset.settings;
+  const double required = std::isnan(settings.required_margin) ? 1.0 : settings.required_margin;
+  const double threshold_V = settings.operating_V * required;
+  auto flag = int_array("onset_flag", n_samples);
+  vtkIdType i = 0;
+  for (const SurfaceField& surface : results.surfaces)
+    for (const auto& contour : surface.contours)
+      for (const SurfaceSample& sample : contour) flag->SetValue(i++, sample.inception_V < threshold_V ? 1 : 0);
+  point_data.AddArray(sample_array("inception_V", results, n_samples, &SurfaceSample::inception_V));
+  point_data.AddArray(sample_array("margin", results, n_samples, &SurfaceSample::margin));
+  point_data.AddArray(flag);
+}
+
+// ---- fieldlines.vtp ----
+
+// Every reason a line can end, in the order of LineEnd: end_reason indexes this list.
+constexpr LineEnd kLineEnds[] = {LineEnd::WeakField, LineEnd::Conductor, LineEnd::Dielectric, LineEnd::Boundary,
+                                 LineEnd::Length};
+
+// The start point whose line is `line`, or -1 when no start refers to it.
+int start_of_line(const OnsetResult& onset, int line) {
+  const auto found = std::find_if(onset.starts.begin(), onset.starts.end(),
+                                  [line](const OnsetStart& start) { return start.line == line; });
+  return found == onset.starts.end() ? -1 : static_cast<int>(found - onset.starts.begin());
+}
+
+// The voltage a line is shown at: its start's inception voltage, or the operating voltage when it
+// has none (or no start refers to it).
+double line_voltage(const OnsetResult& onset, int start) {
+  const double inception_V = start >= 0 ? onset.starts[static_cast<size_t>(start)].inception_V : kNoInception;
+  return std::isfinite(inception_V) ? inception_V : onset.settings.operating_V;
+}
+
+// The coefficients at every point of a line at the field `scale` x the solved field.
+std::vector<IonizationCoefficients> coefficients_along(const FieldLine& line, double scale, const GasModel& gas) {
+  std::vector<IonizationCoefficients> coefficients;
+  for (const LinePoint& point : line.points) coefficients.push_back(gas.coefficients(scale * point.E));
+  return coefficients;
+}
+
+// integral_0^s f ds' at every point of a line, by the trapezoidal rule over its stored samples.
+std::vector<double> cumulative_integral(const FieldLine& line, const std::vector<double>& f) {
+  std::vector<double> integral(f.size(), 0.0);
+  for (size_t k = 1; k < f.size(); ++k)
+    integral[k] = integral[k - 1] + 0.5 * (line.points[k].s - line.points[k - 1].s) * (f[k - 1] + f[k]);
+  return integral;
+}
+
+// The criterion's integral from the start to every point of a line:
+//   streamer:  integral of max(alpha_eff, 0) ds (the ionization zone only);
+//   townsend:  gamma * integral of alpha(s) exp(integral_0^s alpha_eff ds') ds.
+std::vector<double> running_integral(const FieldLine& line, const std::vector<IonizationCoefficients>& coefficients,
+                                     const OnsetSettings& settings) {
+  std::vector<double> integrand;
+  if (settings.criterion == "townsend") {
+    std::vector<double> alpha_eff;
+    for (const IonizationCoefficients& c : coefficients) alpha_eff.push_back(c.effective());
+    const std::vector<double> growth = cumulative_integral(line, alpha_eff);
+    for (size_t k = 0; k < coefficients.size(); ++k)
+      integrand.push_back(settings.gamma * coefficients[k].alpha * std::exp(growth[k]));
+  } else {
+    for (const IonizationCoefficients& c : coefficients) integrand.push_back(std::max(c.effective(), 0.0));
+  }
+  return cumulative_integral(line, integrand);
+}
+
 }  // namespace
 
 void write_field_vtu(const std::string& path, const Mesh& mesh, const RunResults* results) {
@@ -175,6 +246,61 @@ void write_surfaces_vtp(const std::string& path, const RunResults& results) {
   point_data.AddArray(sample_array("E_n_V_per_m", results, n_samples, &SurfaceSample::E_n));
   point_data.AddArray(sample_array("E_t_V_per_m", results, n_samples, &SurfaceSample::E_t));
   point_data.AddArray(sample_array("sigma_C_per_m2", results, n_samples, &SurfaceSample::sigma));
+  if (results.onset.evaluated) add_onset_arrays(results, n_samples, point_data);
+
+  vtkNew<vtkXMLPolyDataWriter> writer;
+  write_vtk_atomically(*writer, polydata, path);
+}
+
+void write_fieldlines_vtp(const std::string& path, const RunResults& results, const GasModel& gas) {
+  const OnsetResult& onset = results.onset;
+  vtkNew<vtkPoints> points;
+  points->SetDataTypeToDouble();
+  vtkNew<vtkCellArray> cells;
+  auto s = double_array("s_m", 1, 0);
+  auto E_abs = double_array("E_abs_V_per_m", 1, 0);
+  auto alpha_eff = double_array("alpha_eff_per_m", 1, 0);
+  auto integral = double_array("running_integral", 1, 0);
+  auto start_index = int_array("start_index", 0);
+  auto end_reason = int_array("end_reason", 0);
+  auto voltage = double_array("voltage_V", 1, 0);
+  for (size_t l = 0; l < onset.lines.size(); ++l) {
+    const FieldLine& line = onset.lines[l];
+    const int start = start_of_line(onset, static_cast<int>(l));
+    const double line_V = line_voltage(onset, start);
+    const double scale = line_V / onset.settings.solved_V;  // all fixed potentials scale together
+    const std::vector<IonizationCoefficients> coefficients = coefficients_along(line, scale, gas);
+    const std::vector<double> running = running_integral(line, coefficients, onset.settings);
+    cells->InsertNextCell(static_cast<vtkIdType>(line.points.size()));
+    for (size_t k = 0; k < line.points.size(); ++k) {
+      const LinePoint& point = line.points[k];
+      cells->InsertCellPoint(points->InsertNextPoint(point.at.r, point.at.z, 0.0));
+      s->InsertNextValue(point.s);
+      E_abs->InsertNextValue(scale * point.E);
+      alpha_eff->InsertNextValue(coefficients[k].effective());
+      integral->InsertNextValue(running[k]);
+    }
+    start_index->InsertNextValue(start);
+    end_reason->InsertNextValue(static_cast<int>(line.end));
+    voltage->InsertNextValue(line_V);
+  }
+  vtkNew<vtkStringArray> end_names;
+  end_names->SetName("end_reason_names");  // indexed by end_reason
+  for (const LineEnd end : kLineEnds) end_names->InsertNextValue(to_string(end));
+
+  vtkNew<vtkPolyData> polydata;
+  polydata->SetPoints(points);
+  polydata->SetLines(cells);
+  vtkPointData& point_data = *polydata->GetPointData();
+  point_data.AddArray(s);
+  point_data.AddArray(E_abs);
+  point_data.AddArray(alpha_eff);
+  point_data.AddArray(integral);
+  vtkCellData& cell_data = *polydata->GetCellData();
+  cell_data.AddArray(start_index);
+  cell_data.AddArray(end_reason);
+  cell_data.AddArray(voltage);
+  polydata->GetFieldData()->AddArray(end_names);
 
   vtkNew<vtkXMLPolyDataWriter> writer;
   write_vtk_atomically(*writer, polydata, path);
