@@ -17,6 +17,9 @@ namespace hv {
 class FieldSampler {
  public:
   FieldSampler(const Mesh& mesh, const Eigen::VectorXd& potential);
+  // The sampler keeps references to both: temporaries would dangle.
+  FieldSampler(const Mesh&& mesh, const Eigen::VectorXd& potential) = delete;
+  FieldSampler(const Mesh& mesh, const Eigen::VectorXd&& potential) = delete;
   ~FieldSampler();
   FieldSampler(const FieldSampler&) = delete;
   FieldSampler& operator=(const FieldSampler&) = delete;
@@ -26,6 +29,27 @@ class FieldSampler {
   bool locate(Point p, int hint, int& triangle, double& xi, double& eta) const;
   // E (V/m, components r and z) at p; `triangle` is the hint in and the containing triangle out.
   bool field(Point p, int& triangle, Point& E) const;
+
+  // E (V/m) of `triangle`'s polynomial continued to p, which may lie a little outside the triangle
+  // (up to about its own size): lets a step that ends beyond the gas be completed before its crossing
+  // is found. False when the inverse isoparametric map does not converge at p.
+  bool field_continued(int triangle, Point p, Point& E) const;
+
+  // What a path crosses where it leaves gas triangle `triangle` for the nearby point `outside`: the
+  // region (index into mesh().regions) when `outside` lies in a solid dielectric, or else the boundary
+  // (index into mesh().boundaries) whose edge it crosses out of the mesh, with that edge's end
+  // vertices; -1 when neither applies.
+  struct Border {
+    int region = -1;
+    int boundary = -1;
+    Point edge_from, edge_to;
+  };
+  Border border_crossed(int triangle, Point outside) const;
+
+  // The shortest (straight) edge of the triangle, m: the scale on which the element's field varies.
+  double element_size(int triangle) const;
+  // The diagonal of the mesh's bounding box, m.
+  double domain_size() const;
 
   const Mesh& mesh() const;
 
@@ -64,6 +88,9 @@ struct TraceOptions {
   double stop_field = 0.0;       // V/m at the solved potential: end where |E| falls below it
   double max_length = 0.0;       // m; 0 = the domain's size
   double tolerance = 1e-7;       // relative position error per unit length for the step control
+  double max_field_change = 0.003;  // largest relative change of |E| between consecutive points: with
+                                    // it the trapezoid rule on the points integrates exp(-c / |E|)
+                                    // to about (c / |E| x max_field_change)^2 / 12, relative
 };
 
 // Traces the field line from `start` (a point of the gas on or just off an electrode surface) in the

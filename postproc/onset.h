@@ -10,6 +10,20 @@
 // U / solved_V times the solved field.
 //   streamer:  integral of alpha_eff ds over the ionization zone (alpha_eff > 0) reaches K;
 //   townsend:  gamma * integral of alpha(x) exp(integral_0^x alpha_eff) dx = 1 from the cathode.
+//
+// As built (postproc/onset.cpp, onset_starts.cpp, onset_criteria.cpp):
+// - Start points: every node of an electrode surface in the gas whose |E| could ionize within the
+//   searched range, 1-3 more between nodes where |E| is within 20 % of that surface's highest, and,
+//   when `start_points` asks for more, the rest evenly in arc length over the stressed stretches.
+// - Scales searched: from critical / E_start (the surface starts to ionize) up to 5 x critical /
+//   (highest gas-side surface field), and at least up to the operating voltage. Onset fields in air
+//   reach about 4.7 x critical at 0.1 mm radius (Peek's coaxial law), so 5 covers resolved radii.
+// - The ionization zone is the stretch from the surface to where x |E| first falls to critical.
+// - Polarity p (+1 positive, -1 negative: every fixed potential times p). The start's electrode is
+//   the cathode where p E_n < 0, E_n the normal field of the solved potentials (positive away from
+//   the conductor). The streamer criterion does not depend on the direction of travel and is
+//   evaluated on every line; the Townsend criterion only on lines from a cathode of a polarity asked
+//   for ("both": whichever polarity makes the start a cathode), other lines report kNoInception.
 #pragma once
 
 #include <cmath>
@@ -67,11 +81,14 @@ struct OnsetStart {
   Point at;
   double E_operating = 0.0;     // |E| at the start at the operating voltage, V/m
   double integral_operating = 0.0;  // the criterion's integral at the operating voltage (streamer:
-                                    // integral of alpha_eff; townsend: gamma * generation integral)
+                                    // integral of alpha_eff; townsend: gamma * generation integral;
+                                    // 0 on lines where the Townsend criterion does not apply)
   double zone_length_operating = 0.0;  // length of the ionization zone along the line at operating, m
   double inception_V = kNoInception;   // kNoInception: not reached within the searched range
   double margin = kNoInception;        // inception_V / operating_V
-  std::string polarity;                // the polarity that gave inception_V
+  std::string polarity;                // the polarity that gave inception_V: "positive", "negative",
+                                       // or "both" for the streamer under polarity both (either gives
+                                       // it); empty when there is no inception
   int line = -1;                       // index into OnsetResult::lines
 };
 
@@ -101,7 +118,7 @@ struct OnsetResult {
   double margin = kNoInception;
   std::string electrode;                // where the lowest inception voltage is
   Point at;
-  std::vector<ElectrodeOnset> electrodes;  // per electrode, in case order
+  std::vector<ElectrodeOnset> electrodes;  // per electrode with a gas-side surface, in case order
   std::vector<OnsetStart> starts;
   std::vector<FieldLine> lines;
   std::vector<OnsetRegion> regions;

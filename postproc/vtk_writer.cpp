@@ -156,11 +156,39 @@ void add_onset_arrays(const RunResults& results, vtkIdType n_samples, vtkPointDa
 constexpr LineEnd kLineEnds[] = {LineEnd::WeakField, LineEnd::Conductor, LineEnd::Dielectric, LineEnd::Boundary,
                                  LineEnd::Length};
 
-// The start point whose line is `line`, or -1 when no start refers to it.
-int start_of_line(const OnsetResult& onset, int line) {
-  const auto found = std::find_if(onset.starts.begin(), onset.starts.end(),
-                                  [line](const OnsetStart& start) { return start.line == line; });
-  return found == onset.starts.end() ? -1 : static_cast<int>(found - onset.starts.begin());
+// For every line, the start point whose line it is, or -1 when no start refers to it.
+std::vector<int> start_of_each_line(const OnsetResult& onset) {
+  std::vector<int> start(onset.lines.size(), -1);
+  for (size_t i = 0; i < onset.starts.size(); ++i) {
+    const int line = onset.starts[i].line;
+    if (line >= 0 && line < static_cast<int>(start.size())) start[static_cast<size_t>(line)] = static_cast<int>(i);
+  }
+  return start;
+}
+
+// The points of a line worth drawing. The tracer stores a point every fraction of an element, which
+// the integrals need but a picture does not (thousands of lines would make the file hundreds of MB).
+// A line of more than kDrawnWhole points keeps its ends, and a point wherever the arc length has grown
+// by 1/kDrawnPerLine of the line's length or |E| has changed by 5 % since the last kept point (so the
+// steep part near the electrode stays).
+constexpr size_t kDrawnWhole = 200;
+constexpr double kDrawnPerLine = 40.0;
+std::vector<size_t> drawn_points(const FieldLine& line) {
+  std::vector<size_t> kept;
+  if (line.points.size() <= kDrawnWhole) {
+    for (size_t k = 0; k < line.points.size(); ++k) kept.push_back(k);
+    return kept;
+  }
+  const double step = line.points.back().s / kDrawnPerLine;
+  kept.push_back(0);
+  for (size_t k = 1; k + 1 < line.points.size(); ++k) {
+    const LinePoint &last = line.points[kept.back()], &here = line.points[k];
+    const bool far_enough = here.s - last.s >= step;
+    const bool field_changed = std::abs(here.E - last.E) > 0.05 * std::max(std::abs(last.E), 1e-300);
+    if (far_enough || field_changed) kept.push_back(k);
+  }
+  if (line.points.size() > 1) kept.push_back(line.points.size() - 1);
+  return kept;
 }
 
 // The voltage a line is shown at: its start's inception voltage, or the operating voltage when it
@@ -264,15 +292,17 @@ void write_fieldlines_vtp(const std::string& path, const RunResults& results, co
   auto start_index = int_array("start_index", 0);
   auto end_reason = int_array("end_reason", 0);
   auto voltage = double_array("voltage_V", 1, 0);
+  const std::vector<int> start_of_line = start_of_each_line(onset);
   for (size_t l = 0; l < onset.lines.size(); ++l) {
     const FieldLine& line = onset.lines[l];
-    const int start = start_of_line(onset, static_cast<int>(l));
+    const int start = start_of_line[l];
     const double line_V = line_voltage(onset, start);
     const double scale = line_V / onset.settings.solved_V;  // all fixed potentials scale together
     const std::vector<IonizationCoefficients> coefficients = coefficients_along(line, scale, gas);
     const std::vector<double> running = running_integral(line, coefficients, onset.settings);
-    cells->InsertNextCell(static_cast<vtkIdType>(line.points.size()));
-    for (size_t k = 0; k < line.points.size(); ++k) {
+    const std::vector<size_t> drawn = drawn_points(line);
+    cells->InsertNextCell(static_cast<vtkIdType>(drawn.size()));
+    for (const size_t k : drawn) {
       const LinePoint& point = line.points[k];
       cells->InsertCellPoint(points->InsertNextPoint(point.at.r, point.at.z, 0.0));
       s->InsertNextValue(point.s);

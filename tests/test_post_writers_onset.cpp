@@ -349,6 +349,28 @@ TEST_F(OnsetWriters, FieldlinesVtpHasOnePolylinePerLineInTheRzPlane) {
   EXPECT_EQ(folder_entries(), std::set<std::string>{"fieldlines.vtp"});  // no temporary left
 }
 
+// A long traced line is thinned for drawing: its ends stay, the rest keeps a point per 1/40 of its
+// length or per 5 % change of |E|, so a steep start stays finely drawn (vtk_writer.cpp, drawn_points).
+TEST_F(OnsetWriters, FieldlinesVtpThinsLongLinesButKeepsTheirEnds) {
+  const int n = 2000;
+  const double step = 1e-4, length = (n - 1) * step;
+  results_.onset.lines[0] = straight_line({0.01, 0.02}, n, step, [](double s) { return 3e6 / (1 + 100 * s); },
+                                          LineEnd::WeakField);
+  Dump dump = fieldlines_dump();
+  const std::vector<double> cells = numbers(dump["cells"]);
+  const auto drawn = static_cast<size_t>(cells.at(0));
+  EXPECT_GT(drawn, 40u);
+  EXPECT_LT(drawn, 200u);
+  const std::vector<double> points = numbers(dump["points"]);
+  EXPECT_DOUBLE_EQ(points[1], 0.02);                               // first point kept
+  EXPECT_DOUBLE_EQ(points[3 * (drawn - 1) + 1], 0.02 + length);  // last point kept
+  for (size_t k = 1; k < drawn; ++k) {
+    const double gap = points[3 * k + 1] - points[3 * (k - 1) + 1];
+    EXPECT_GT(gap, 0.0);
+    EXPECT_LE(gap, length / 40 + step * 1.0001);
+  }
+}
+
 TEST_F(OnsetWriters, FieldlinesVtpValuesAreAtEachLinesOwnVoltage) {
   Dump dump = fieldlines_dump();
   // The Laplace field scales with the voltage: E(U) = U / U_solved x E(U_solved). The streamer

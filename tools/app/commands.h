@@ -16,7 +16,8 @@ struct CommandOptions {
   bool json = false;                    // print summary.json to stdout instead of the table
 };
 
-// Mesh, solve, recover surface fields, write the outputs, print a short table.
+// Mesh, solve, recover surface fields, evaluate onset when asked, write the outputs, print a short
+// table. Returns 3 when the design misses its required onset margin.
 int run_command(const CommandOptions& options);
 
 // Parse and validate the case and build its geometry; writes nothing.
@@ -24,6 +25,9 @@ int check_command(const CommandOptions& options);
 
 // Mesh only; writes mesh.vtu and a summary.json of the mesh figures.
 int mesh_command(const CommandOptions& options);
+
+// Lists the built-in gas models: formula, range of validity, defaults and source.
+int gases_command();
 
 // The bundled demo case (cases/hv-terminal.yaml), run as `run` would.
 int demo_command(const CommandOptions& options);

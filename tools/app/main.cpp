@@ -52,6 +52,9 @@ int main(int argc, char** argv) {
   add_output_options(*mesh, options);
   mesh->footer("example: hvstress mesh cases/hv-terminal.yaml -o terminal-mesh");
 
+  CLI::App* gases = app.add_subcommand("gases", "list the built-in gas models: formula, range of validity, source");
+  gases->footer("example: hvstress gases");
+
   CLI::App* demo = app.add_subcommand("demo", "run the bundled demo case and say where the results are");
   add_output_options(*demo, options);
   demo->add_flag("--json", options.json, "print summary.json to stdout instead of the table");
@@ -68,6 +71,7 @@ int main(int argc, char** argv) {
     if (*run) return hv::run_command(options);
     if (*check) return hv::check_command(options);
     if (*mesh) return hv::mesh_command(options);
+    if (*gases) return hv::gases_command();
     return hv::demo_command(options);
   } catch (const hv::InputError& error) {
     std::fprintf(stderr, "error: %s\n", error.what());

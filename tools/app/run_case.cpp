@@ -1,5 +1,6 @@
 #include "tools/app/run_case.h"
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <filesystem>
@@ -58,6 +59,15 @@ void fill_case_echo(const Case& the_case, RunResults& results) {
   results.version = HV_VERSION;
 }
 
+// The voltage that drives the field: the largest |fixed potential|. Onset scales all fixed
+// potentials together, so inception voltages are values of this one.
+double driving_voltage(const Case& the_case) {
+  double largest = 0.0;
+  for (const ElectrodeSpec& electrode : the_case.geometry.electrodes)
+    if (!electrode.floating) largest = std::max(largest, std::abs(electrode.potential_V));
+  return largest;
+}
+
 }  // namespace
 
 FieldProblem field_problem(const Case& the_case, const Mesh& mesh) {
@@ -78,6 +88,12 @@ std::unique_ptr<RunOutcome> compute_case(const Case& the_case, const StepListene
   RunResults& results = outcome->results;
   fill_case_echo(the_case, results);
   const auto start = std::chrono::steady_clock::now();
+  // The gas first: a bad table or setting is bad input, and should cost no meshing.
+  std::optional<OnsetSettings> onset_settings;
+  if (the_case.onset.present) {
+    outcome->gas = GasModel::from_spec(the_case.gas);
+    onset_settings = resolve_onset_settings(the_case.onset, *outcome->gas, driving_voltage(the_case));
+  }
 
   announce(on_step, "meshing");
   outcome->meshed = build_mesh(the_case.geometry);
@@ -115,6 +131,11 @@ std::unique_ptr<RunOutcome> compute_case(const Case& the_case, const StepListene
   results.has_ground_plane = the_case.geometry.ground_plane.present;
   if (results.has_ground_plane) results.ground_plane_charge_C = solution.conductor_charge_C.back();
   results.timings.post = seconds_since(post_start);
+
+  if (onset_settings) {
+    announce(on_step, "evaluating discharge onset");
+    results.onset = evaluate_onset(mesh, solution.potential, results.surfaces, *outcome->gas, *onset_settings);
+  }
   results.timings.total = seconds_since(start);
   return outcome;
 }
@@ -128,6 +149,10 @@ void write_run_outputs(const RunOutcome& outcome, const Case& the_case, const st
     write_surfaces_vtp((folder / "surfaces.vtp").string(), results);
   }
   if (wanted.csv) write_file_atomically((folder / "surface-field.csv").string(), surface_field_csv(results));
+  if (results.onset.evaluated) {
+    if (wanted.csv) write_file_atomically((folder / "onset.csv").string(), onset_csv(results));
+    if (wanted.vtk) write_fieldlines_vtp((folder / "fieldlines.vtp").string(), results, *outcome.gas);
+  }
   if (wanted.report) write_file_atomically((folder / "report.md").string(), report_markdown(results));
   // summary.json last: its presence marks a complete result.
   write_file_atomically((folder / "summary.json").string(), summary_json(results));

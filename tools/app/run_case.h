@@ -5,6 +5,7 @@
 
 #include <functional>
 #include <memory>
+#include <optional>
 #include <string>
 
 #include "mesh/meshing.h"
@@ -23,6 +24,7 @@ struct RunOutcome {
   MeshResult meshed;
   FieldSolution solution;
   RunResults results;
+  std::optional<GasModel> gas;  // when the case evaluates discharge onset
   RunOutcome() = default;
   RunOutcome(const RunOutcome&) = delete;
   RunOutcome& operator=(const RunOutcome&) = delete;
@@ -33,12 +35,14 @@ struct RunOutcome {
 // charges and their images is a dipole), else 1 (monopole).
 FieldProblem field_problem(const Case& the_case, const Mesh& mesh);
 
-// Meshes, solves and recovers the surface fields. Throws InputError for bad input (exit 2) and
+// Meshes, solves, recovers the surface fields and, when the case has an `onset` section, evaluates
+// discharge onset. Throws InputError for bad input (exit 2) and
 // RunError for other failures (exit 1). Writes nothing.
 std::unique_ptr<RunOutcome> compute_case(const Case& the_case, const StepListener& on_step = {});
 
 // Writes the outputs the case asks for (summary.json always; field.vtu and surfaces.vtp when
-// output.vtk, surface-field.csv when output.csv, report.md when output.report) into the folder
+// output.vtk, surface-field.csv when output.csv, report.md when output.report; with an onset
+// evaluation also onset.csv and fieldlines.vtp) into the folder
 // `dir`, which must exist.
 void write_run_outputs(const RunOutcome& outcome, const Case& the_case, const std::string& dir);
 
