@@ -23,7 +23,8 @@ std::string mesh_summary_json(const Mesh& mesh, const MeshStats& stats);
 void write_field_vtu(const std::string& path, const Mesh& mesh, const RunResults* results);
 
 // surfaces.vtp: every electrode contour and interface side as a polyline with |E|, E_n, E_t, sigma
-// and the arc length s as point data, and the surface name index as cell data.
+// and the arc length s as point data, and the surface name index as cell data; after an onset
+// evaluation also inception_V, margin (NaN where not evaluated) and onset_flag.
 void write_surfaces_vtp(const std::string& path, const RunResults& results);
 
 // surface-field.csv: one row per surface point: surface, region (the field is evaluated in), contour,
@@ -38,7 +39,8 @@ std::string onset_csv(const RunResults& results);
 
 // fieldlines.vtp: every traced line as a polyline with point data |E|, alpha_eff and the running
 // criterion integral, all at the line's own inception voltage (at operating when it has none), and
-// cell data start index and end reason.
+// cell data start index, end reason and the voltage the line is shown at (voltage_V). Long lines are
+// thinned for drawing (their ends and the steep part near the electrode stay).
 void write_fieldlines_vtp(const std::string& path, const RunResults& results, const GasModel& gas);
 
 // report.md: a readable account of the run: the safety caution, a table per electrode (potential,
