@@ -4,6 +4,7 @@
 // 5(4) pair of Dormand & Prince (J. Comput. Appl. Math. 6, 1980) with step control.
 #pragma once
 
+#include <memory>
 #include <string>
 #include <vector>
 
@@ -57,7 +58,7 @@ class FieldSampler {
   struct Index;
   const Mesh& mesh_;
   const Eigen::VectorXd& potential_;
-  Index* index_;
+  std::unique_ptr<const Index> index_;
 };
 
 // Why a field line ended.
@@ -87,7 +88,7 @@ struct TraceOptions {
   double direction = 1.0;        // +1: along E, -1: against E
   double stop_field = 0.0;       // V/m at the solved potential: end where |E| falls below it
   double max_length = 0.0;       // m; 0 = the domain's size
-  double tolerance = 1e-7;       // relative position error per unit length for the step control
+  double tolerance = 1e-7;       // allowed position error per step, as a fraction of the domain's size
   double max_field_change = 0.003;  // largest relative change of |E| between consecutive points: with
                                     // it the trapezoid rule on the points integrates exp(-c / |E|)
                                     // to about (c / |E| x max_field_change)^2 / 12, relative
@@ -96,6 +97,9 @@ struct TraceOptions {
 // Traces the field line from `start` (a point of the gas on or just off an electrode surface) in the
 // direction of `options.direction * E`, recording points at every accepted step (dense enough to
 // integrate alpha_eff along it: steps are also limited to a fraction of the local element size).
+// As built: steps span at most one element, and points are also recorded between their ends on the
+// step's dense output, at most a quarter element apart and with |E| changing by at most
+// options.max_field_change between neighbours. Lines follow the axis and symmetry sides.
 // The line stops at the first gas-region boundary it meets (conductor, dielectric, domain) at the
 // crossing point, or where |E| < stop_field, or at max_length.
 FieldLine trace_field_line(const FieldSampler& sampler, Point start, const TraceOptions& options);

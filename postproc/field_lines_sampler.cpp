@@ -12,6 +12,7 @@
 #include <cassert>
 #include <cmath>
 #include <cstdint>
+#include <memory>
 
 #include "postproc/field_lines.h"
 #include "solver/elements.h"
@@ -280,11 +281,11 @@ bool FieldSampler::Index::search_grid(const Mesh& mesh, Point p, int& triangle, 
 }
 
 FieldSampler::FieldSampler(const Mesh& mesh, const Eigen::VectorXd& potential)
-    : mesh_(mesh), potential_(potential), index_(new Index(mesh)) {
+    : mesh_(mesh), potential_(potential), index_(std::make_unique<const Index>(mesh)) {
   assert(potential.size() == mesh.n_nodes() && "one potential per mesh node");
 }
 
-FieldSampler::~FieldSampler() { delete index_; }
+FieldSampler::~FieldSampler() = default;  // here, where Index is complete
 
 bool FieldSampler::locate(Point p, int hint, int& triangle, double& xi, double& eta) const {
   if (!(p.r >= 0.0) || !std::isfinite(p.r) || !std::isfinite(p.z)) return false;  // the half plane r >= 0
