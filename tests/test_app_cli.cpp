@@ -93,6 +93,14 @@ TEST(Cli, VersionAndHelpWithCaution) {
   EXPECT_NE(help.out.find("high voltage can kill"), std::string::npos);
 }
 
+TEST(Cli, GasesListsEveryModelWithItsSource) {
+  Sandbox box;
+  const auto result = box.hvstress("gases");
+  EXPECT_EQ(result.exit_code, 0);
+  for (const char* expected : {"Morrow & Lowke", "quadratic", "SF6", "table", "source:"})
+    EXPECT_NE(result.out.find(expected), std::string::npos) << expected;
+}
+
 // One malformed input: what to change in the valid case (or the command line), and what the message
 // must name. Each must exit with 2 and leave no output folder behind.
 struct BadInput {

@@ -224,29 +224,27 @@ TEST(PlateFieldLines, LinesFollowTheClosedFormCurvesBothWays) {
   TraceOptions up_options;
   up_options.direction = -1;
   const double allowed = down_options.tolerance * sampler.domain_size();  // measured 0.11 of it
-  {
-    for (double r0 : {0.0, 0.005, 0.01, 0.02}) {
-      const auto curve_r = [&](double z) { return r0 * std::sqrt((d + 2 * beta * d) / (d + 2 * beta * z)); };
-      const FieldLine down = trace_field_line(sampler, {r0, d}, down_options);
-      EXPECT_EQ(down.end, LineEnd::Conductor);
-      EXPECT_EQ(down.ended_on, "ground");
-      for (const LinePoint& p : down.points) {
-        EXPECT_NEAR(p.at.r, curve_r(p.at.z), allowed) << "r0 " << r0;
-        EXPECT_NEAR(p.E, kVolts / (d * d) * std::hypot(beta * p.at.r, d + 2 * beta * p.at.z), 1e-9 * kVolts / d);
-      }
-      const Point end = down.points.back().at;
-      EXPECT_NEAR(end.z, 0.0, 1e-9 * d);
-      EXPECT_NEAR(end.r, curve_r(0.0), allowed);
-
-      // Back from the end against the field: to the start.
-      const FieldLine up = trace_field_line(sampler, end, up_options);
-      EXPECT_EQ(up.end, LineEnd::Conductor);
-      EXPECT_EQ(up.ended_on, "plate");
-      EXPECT_NEAR(up.points.back().at.r, r0, 2 * allowed);
-      EXPECT_NEAR(up.points.back().at.z, d, 1e-9 * d);
-      EXPECT_NEAR(up.points.back().s, down.points.back().s, 2 * allowed);
-      for (const LinePoint& p : up.points) EXPECT_NEAR(p.at.r, curve_r(p.at.z), 2 * allowed);
+  for (double r0 : {0.0, 0.005, 0.01, 0.02}) {
+    const auto curve_r = [&](double z) { return r0 * std::sqrt((d + 2 * beta * d) / (d + 2 * beta * z)); };
+    const FieldLine down = trace_field_line(sampler, {r0, d}, down_options);
+    EXPECT_EQ(down.end, LineEnd::Conductor);
+    EXPECT_EQ(down.ended_on, "ground");
+    for (const LinePoint& p : down.points) {
+      EXPECT_NEAR(p.at.r, curve_r(p.at.z), allowed) << "r0 " << r0;
+      EXPECT_NEAR(p.E, kVolts / (d * d) * std::hypot(beta * p.at.r, d + 2 * beta * p.at.z), 1e-9 * kVolts / d);
     }
+    const Point end = down.points.back().at;
+    EXPECT_NEAR(end.z, 0.0, 1e-9 * d);
+    EXPECT_NEAR(end.r, curve_r(0.0), allowed);
+
+    // Back from the end against the field: to the start.
+    const FieldLine up = trace_field_line(sampler, end, up_options);
+    EXPECT_EQ(up.end, LineEnd::Conductor);
+    EXPECT_EQ(up.ended_on, "plate");
+    EXPECT_NEAR(up.points.back().at.r, r0, 2 * allowed);
+    EXPECT_NEAR(up.points.back().at.z, d, 1e-9 * d);
+    EXPECT_NEAR(up.points.back().s, down.points.back().s, 2 * allowed);
+    for (const LinePoint& p : up.points) EXPECT_NEAR(p.at.r, curve_r(p.at.z), 2 * allowed);
   }
 }
 
