@@ -7,6 +7,9 @@
 
 #include "mesh/base.h"
 #include "tools/app/commands.h"
+#include "tools/app/compare.h"
+#include "tools/app/optimize.h"
+#include "tools/app/sweep.h"
 
 namespace {
 
@@ -52,6 +55,40 @@ int main(int argc, char** argv) {
   add_output_options(*mesh, options);
   mesh->footer("example: hvstress mesh cases/hv-terminal.yaml -o terminal-mesh");
 
+  hv::SweepOptions sweep_options;
+  CLI::App* sweep = app.add_subcommand("sweep", "run every variant of a case and compare them");
+  sweep->add_option("CASE", sweep_options.case_path, "the case file (YAML)")->required()->check(CLI::ExistingFile);
+  sweep->add_option("--vary", sweep_options.varies,
+                    "NAME=SPEC: a list 30mm,40mm,50mm or a range LO:HI:COUNT (repeatable: a full grid)")
+      ->required();
+  sweep->add_flag("--zip", sweep_options.zip, "pair the k-th values of every --vary instead of a full grid");
+  sweep->add_option("--set", sweep_options.overrides, "override a parameter for every variant, NAME=VALUE");
+  sweep->add_option("-o,--output", sweep_options.output_dir, "sweep folder (default: <case output.dir>-sweep)");
+  sweep->add_option("--jobs", sweep_options.jobs, "variants run at once (default: the number of cores)")
+      ->check(CLI::NonNegativeNumber);
+  sweep->add_option("--shard", sweep_options.shard, "K/N: run only every N-th variant starting at the K-th");
+  sweep->footer("example: hvstress sweep cases/ring-study.yaml --vary ring_R=200mm:400mm:5 --vary tube_r=30mm,50mm");
+
+  std::vector<std::string> compare_folders;
+  std::string compare_output;
+  CLI::App* compare = app.add_subcommand("compare", "put finished runs or sweeps side by side");
+  compare->add_option("RESULT_DIR", compare_folders, "run or sweep folders")->required()->check(CLI::ExistingDirectory);
+  compare->add_option("-o,--output", compare_output, "comparison folder (default: comparison)");
+  compare->footer("example: hvstress compare ring-a ring-b ring-sweep -o ring-comparison");
+
+  hv::OptimizeOptions optimize_options;
+  CLI::App* optimize = app.add_subcommand("optimize", "search the parameters of a case for the best design");
+  optimize->add_option("CASE", optimize_options.case_path, "the case file (YAML)")->required()->check(CLI::ExistingFile);
+  optimize->add_option("--vary", optimize_options.varies, "NAME=LO:HI (repeatable)")->required();
+  optimize->add_option("--goal", optimize_options.goal, "max-inception, min-field or min-size-with-margin")
+      ->required()
+      ->check(CLI::IsMember({"max-inception", "min-field", "min-size-with-margin"}));
+  optimize->add_option("--set", optimize_options.overrides, "override a parameter, NAME=VALUE");
+  optimize->add_option("--tolerance", optimize_options.tolerance, "stop when the parameters are known to this "
+                       "fraction of their ranges (default 1e-3)")->check(CLI::PositiveNumber);
+  optimize->add_option("-o,--output", optimize_options.output_dir, "folder (default: <case output.dir>-optimize)");
+  optimize->footer("example: hvstress optimize cases/ring-study.yaml --vary tube_r=20mm:80mm --goal min-size-with-margin");
+
   CLI::App* gases = app.add_subcommand("gases", "list the built-in gas models: formula, range of validity, source");
   gases->footer("example: hvstress gases");
 
@@ -72,6 +109,16 @@ int main(int argc, char** argv) {
     if (*check) return hv::check_command(options);
     if (*mesh) return hv::mesh_command(options);
     if (*gases) return hv::gases_command();
+    if (*sweep) {
+      sweep_options.quiet = options.quiet;
+      sweep_options.binary = argv[0];
+      return hv::sweep_command(sweep_options);
+    }
+    if (*compare) return hv::compare_command(compare_folders, compare_output, options.quiet);
+    if (*optimize) {
+      optimize_options.quiet = options.quiet;
+      return hv::optimize_command(optimize_options);
+    }
     return hv::demo_command(options);
   } catch (const hv::InputError& error) {
     std::fprintf(stderr, "error: %s\n", error.what());
