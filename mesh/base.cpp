@@ -1,5 +1,6 @@
 #include "mesh/base.h"
 
+#include <cctype>
 #include <cstdio>
 #include <fstream>
 #include <sstream>
@@ -18,7 +19,12 @@ std::string format_input_error(const SourceLocation& where, const std::string& p
   }
   if (!where.key_path.empty()) out << where.key_path << ": ";
   out << problem;
-  if (!hint.empty()) out << ". " << hint;
+  if (!hint.empty()) {
+    // The hint is a sentence of its own.
+    std::string sentence = hint;
+    sentence[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(sentence[0])));
+    out << ". " << sentence;
+  }
   return out.str();
 }
 }  // namespace

@@ -96,6 +96,7 @@ int gases_command() {
 
 int check_command(const CommandOptions& options) {
   const Case the_case = read_case(options.case_path, options.overrides);
+  if (the_case.onset.present) GasModel::from_spec(the_case.gas);  // reads and checks a gas table
   const std::vector<std::string> warnings = check_geometry(the_case.geometry);
   print_warnings(warnings);
   std::printf("%s: valid (%zu shapes, %zu electrodes, %zu materials, %zu parameters)\n",
