@@ -14,14 +14,6 @@ namespace {
 // Ten significant digits: far below the discretization error, still short to read.
 constexpr int kCsvDigits = 10;
 
-// RFC 4180 section 2: a field holding a comma, a quote or a line break is enclosed in quotes, and a
-// quote inside is doubled.
-std::string csv_field(const std::string& text) {
-  if (text.find_first_of(",\"\r\n") == std::string::npos) return text;
-  std::string out = "\"";
-  for (const char c : text) out += c == '"' ? std::string("\"\"") : std::string(1, c);
-  return out + "\"";
-}
 
 std::string csv_row(const std::string& surface, const std::string& region, size_t contour, const SurfaceSample& sample) {
   std::string row = csv_field(surface) + ',' + csv_field(region) + ',' + std::to_string(contour);

@@ -12,39 +12,6 @@ namespace hv {
 
 namespace {
 
-// A JSON string literal. RFC 8259 section 7: the quotation mark, the reverse solidus and the control
-// characters U+0000..U+001F must be escaped; all other text (UTF-8 included) passes through.
-std::string json_string(const std::string& text) {
-  static const char* const hex_digits = "0123456789abcdef";
-  std::string out = "\"";
-  for (const char c : text) {
-    const auto byte = static_cast<unsigned char>(c);
-    switch (c) {
-      case '"': out += "\\\""; break;
-      case '\\': out += "\\\\"; break;
-      case '\b': out += "\\b"; break;
-      case '\f': out += "\\f"; break;
-      case '\n': out += "\\n"; break;
-      case '\r': out += "\\r"; break;
-      case '\t': out += "\\t"; break;
-      default:
-        if (byte < 0x20) {
-          out += "\\u00";
-          out += hex_digits[byte >> 4];
-          out += hex_digits[byte & 0xF];
-        } else {
-          out += c;
-        }
-    }
-  }
-  return out + "\"";
-}
-
-// JSON has no NaN or infinity (RFC 8259 section 6): a value that is not finite is written as null.
-std::string json_number(double value) {
-  return std::isfinite(value) ? round_trip_number(value) : "null";
-}
-
 std::string json_integer(long long value) { return std::to_string(value); }
 
 std::string json_bool(bool value) { return value ? "true" : "false"; }

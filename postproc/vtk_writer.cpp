@@ -295,6 +295,7 @@ void write_fieldlines_vtp(const std::string& path, const RunResults& results, co
   const std::vector<int> start_of_line = start_of_each_line(onset);
   for (size_t l = 0; l < onset.lines.size(); ++l) {
     const FieldLine& line = onset.lines[l];
+    if (line.points.size() < 2) continue;  // a line that ended where it started draws nothing
     const int start = start_of_line[l];
     const double line_V = line_voltage(onset, start);
     const double scale = line_V / onset.settings.solved_V;  // all fixed potentials scale together
