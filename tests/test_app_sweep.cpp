@@ -3,6 +3,8 @@
 // without recomputing what finished, a bad value fails only its variant.
 #include <gtest/gtest.h>
 
+#include <algorithm>
+
 #include <signal.h>
 #include <sys/stat.h>
 #include <sys/wait.h>
@@ -220,6 +222,51 @@ TEST(Sweep, EveryVariantEqualsTheDesignRunAlone) {
   // And the physics still holds across the sweep: E = U / R on an isolated sphere (Jackson, Classical
   // Electrodynamics, 3rd ed., 1999, section 1.11), here within the 1 % the coarse default mesh gives.
   EXPECT_NEAR(headline_of(variant_folder(box.root() / "study", 2)).max_field, 100e3 / 0.030, 0.01 * 100e3 / 0.030);
+}
+
+// The cells of one CSV line (RFC 4180: quoted cells may hold commas, "" is a quote).
+std::vector<std::string> csv_cells(const std::string& line) {
+  std::vector<std::string> cells(1);
+  bool quoted = false;
+  for (size_t i = 0; i < line.size(); ++i) {
+    const char c = line[i];
+    if (quoted && c == '"' && i + 1 < line.size() && line[i + 1] == '"') cells.back() += '"', ++i;
+    else if (c == '"') quoted = !quoted;
+    else if (c == ',' && !quoted) cells.emplace_back();
+    else cells.back() += c;
+  }
+  return cells;
+}
+
+// The issue's acceptance on the bundled ring study: every row of sweep.csv (max field, inception
+// voltage, capacitance) equals, to 1e-9, the same design run alone with `run --set`.
+TEST(Sweep, RingStudyTableEqualsEachDesignRunAlone) {
+  Sandbox box;
+  const std::string ring_case = std::string(HV_SOURCE_DIR) + "/cases/ring-study.yaml";
+  const auto sweep = box.hvstress("sweep '" + ring_case +
+                                  "' --vary ring_R=200mm:300mm:3 --vary tube_r=30mm,45mm -o study --jobs 2 --quiet");
+  ASSERT_EQ(sweep.exit_code, 0) << sweep.err;
+  std::istringstream table(testing::read_text(box.root() / "study" / "sweep.csv"));
+  std::string line;
+  std::getline(table, line);
+  const std::vector<std::string> header = csv_cells(line);
+  auto column = [&](const std::string& name) {
+    return static_cast<size_t>(std::find(header.begin(), header.end(), name) - header.begin());
+  };
+  const size_t ring_R = column("ring_R_m"), tube_r = column("tube_r_m"), max_field = column("max_field_V_per_m"),
+               inception = column("inception_voltage_V"), capacitance = column("lead_capacitance_F");
+  ASSERT_LT(capacitance, header.size()) << line;
+  int rows = 0;
+  while (std::getline(table, line)) {
+    const std::vector<std::string> cells = csv_cells(line);
+    const std::string settings = "--set 'ring_R=" + cells[ring_R] + " m' --set 'tube_r=" + cells[tube_r] + " m'";
+    const std::string alone = "alone-" + std::to_string(++rows);
+    const auto run = box.hvstress("run '" + ring_case + "' " + settings + " -o " + alone + " --quiet");
+    ASSERT_TRUE(run.exit_code == 0 || run.exit_code == 3) << run.err;
+    const Headline swept{std::stod(cells[max_field]), std::stod(cells[capacitance]), std::stod(cells[inception])};
+    expect_same_design(swept, headline_of(box.root() / alone), settings);
+  }
+  EXPECT_EQ(rows, 6);
 }
 
 // Starts `hvstress ARGS...` in `folder` without waiting; its output is discarded.
