@@ -40,7 +40,7 @@ int main(int argc, char** argv) {
   hv::CommandOptions options;
   app.add_flag("-q,--quiet", options.quiet, "no progress lines on stderr");
 
-  CLI::App* run = app.add_subcommand("run", "mesh, solve and write the field results of a case");
+  CLI::App* run = app.add_subcommand("run", "mesh, solve, evaluate discharge onset and write the results of a case");
   add_case_options(*run, options);
   add_output_options(*run, options);
   run->add_flag("--json", options.json, "print summary.json to stdout instead of the table");
