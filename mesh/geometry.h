@@ -94,6 +94,7 @@ struct MeshSpec {
   double surface_size = 0;   // element size on electrode surfaces; 0 = from curvature
   double max_size = 0;       // largest element anywhere; 0 = default
   double growth = 1.3;       // size ratio between neighbouring elements, at most
+  int max_elements = 5000000;  // the mesher refuses sizes whose estimated triangle count is larger
   SourceLocation where;
 };
 

@@ -16,10 +16,11 @@ struct MeshResult {
   std::vector<std::string> warnings;  // e.g. a sharp electrode corner (singular field there)
 };
 
-// Builds the geometry of `spec` and checks it: shapes clipped at r < 0, painted in order,
-// electrodes of different potential must not touch, electrodes closed and inside the domain, a
-// ground plane must not cut an electrode, sizes positive. Throws InputError naming the shape.
-// Returns warnings. Writes nothing.
+// Builds the geometry of `spec` and checks it: shapes clipped at r < 0, painted in order, outlines
+// closed and not crossing themselves, electrodes of different potential must not touch,
+// electrodes inside the domain, a ground plane must not cut an electrode, every floating electrode
+// has a shape, sizes positive and their estimated triangle count within mesh.max_elements. Throws
+// InputError naming the shape (or the key). Returns warnings. Writes nothing.
 std::vector<std::string> check_geometry(const GeometrySpec& spec);
 
 // check_geometry, then meshes with curved second-order (or first-order) triangles and reads the

@@ -95,10 +95,23 @@ void check_mesh_controls(const MeshSpec& mesh) {
     throw InputError(mesh.where, "mesh.surface_size is larger than mesh.max_size", "swap them");
 }
 
+// A floating electrode's potential follows from its zero net charge; with no shape it has no
+// surface to hold a charge (and is most likely misspelt in `shapes`).
+void require_shapes_of_floating_electrodes(const GeometrySpec& spec) {
+  for (const ElectrodeSpec& electrode : spec.electrodes) {
+    if (!electrode.floating) continue;
+    if (std::none_of(spec.shapes.begin(), spec.shapes.end(),
+                     [&](const ShapeSpec& shape) { return shape.electrode == electrode.name; }))
+      throw InputError(electrode.where, "the floating electrode '" + electrode.name + "' has no shape",
+                       "give a shape `electrode: " + electrode.name + "`, or remove the electrode");
+  }
+}
+
 std::vector<ResolvedShape> resolve_shapes(const GeometrySpec& spec) {
   for (const MaterialSpec& material : spec.materials)
     if (!(material.permittivity > 0))
       throw InputError(material.where, "material '" + material.name + "': permittivity must be positive");
+  require_shapes_of_floating_electrodes(spec);
   std::vector<ResolvedShape> shapes;
   for (const ShapeSpec& shape : spec.shapes) {
     ResolvedShape resolved;

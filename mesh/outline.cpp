@@ -2,7 +2,9 @@
 
 #include <algorithm>
 #include <cmath>
+#include <optional>
 #include <sstream>
+#include <tuple>
 
 namespace hv {
 
@@ -188,6 +190,58 @@ std::vector<OutlinePiece> path_loop(const ShapeSpec& shape, const PathShape& pat
   return loop;
 }
 
+// The loop as straight chords: lines as they are, arcs (at most a quarter turn each) cut into
+// kChordsPerArc chords, which stray from the true arc by at most 0.5 % of its radius.
+std::vector<Point> chord_polygon(const std::vector<OutlinePiece>& loop) {
+  constexpr int kChordsPerArc = 8;
+  std::vector<Point> corners;
+  for (const OutlinePiece& piece : loop) {
+    corners.push_back(piece.from);
+    if (!piece.is_arc) continue;
+    const Point a = piece.from - piece.center, b = piece.to - piece.center;
+    const double sweep = std::atan2(cross(a, b), dot(a, b)), radius = length(a), start = std::atan2(a.z, a.r);
+    for (int k = 1; k < kChordsPerArc; ++k) {
+      const double angle = start + sweep * k / kChordsPerArc;
+      corners.push_back(piece.center + Point{radius * std::cos(angle), radius * std::sin(angle)});
+    }
+  }
+  return corners;
+}
+
+double distance_to_segment(Point p, Point a, Point b) {
+  const Point ab = b - a;
+  const double t = std::clamp(dot(p - a, ab) / dot(ab, ab), 0.0, 1.0);
+  return length(p - (a + t * ab));
+}
+
+// Where segment ab crosses or touches segment cd (within `tolerance`), if it does.
+std::optional<Point> segments_meet(Point a, Point b, Point c, Point d, double tolerance) {
+  const double c_side = cross(b - a, c - a), d_side = cross(b - a, d - a);
+  const double a_side = cross(d - c, a - c), b_side = cross(d - c, b - c);
+  if (c_side * d_side < 0 && a_side * b_side < 0) return c + (c_side / (c_side - d_side)) * (d - c);
+  for (const auto& [p, from, to] : {std::tuple{c, a, b}, std::tuple{d, a, b}, std::tuple{a, c, d}, std::tuple{b, c, d}})
+    if (distance_to_segment(p, from, to) <= tolerance) return p;
+  return std::nullopt;
+}
+
+// Rejects an outline that crosses or touches itself, such as a bow-tie: OpenCASCADE builds a face
+// from it without complaint, but what is inside is not defined. Checks every pair of chords that
+// are not neighbours.
+void reject_self_crossing(const ShapeSpec& shape, const std::vector<OutlinePiece>& loop, double scale) {
+  const std::vector<Point> corners = chord_polygon(loop);
+  const size_t n = corners.size();
+  for (size_t i = 0; i < n; ++i)
+    for (size_t j = i + 2; j < n; ++j) {
+      if (i == 0 && j == n - 1) continue;  // the closing chord is a neighbour of the first
+      const auto at = segments_meet(corners[i], corners[i + 1], corners[j], corners[(j + 1) % n],
+                                    kRelativeTolerance * scale);
+      if (at)
+        reject(shape, "the outline crosses or touches itself at " + format_point(*at),
+               "list the points so that the outline goes round once without crossing; split it into two shapes "
+               "if it has two parts");
+    }
+}
+
 }  // namespace
 
 Outline outline_of(const ShapeSpec& shape) {
@@ -208,6 +262,7 @@ Outline outline_of(const ShapeSpec& shape) {
   if (!(box.r_max > 0)) reject(shape, "the shape lies entirely at r <= 0", "the model is the half plane r >= 0");
   if (!outline.is_circle) {
     const double size = std::max(box.r_max - box.r_min, box.z_max - box.z_min);
+    reject_self_crossing(shape, outline.loop, size);
     if (std::abs(signed_area(outline.loop)) <= kRelativeTolerance * size * size)
       reject(shape, "the outline encloses no area", "check its points");
   }

@@ -6,6 +6,7 @@
 #include <filesystem>
 
 #include "postproc/writers.h"
+#include "tools/app/finite_results.h"
 #include "tools/app/output_folder.h"
 #include "tools/app/progress.h"
 #include "tools/app/run_case.h"
@@ -114,6 +115,7 @@ int mesh_command(const CommandOptions& options) {
   progress.start("meshing");
   const MeshResult meshed = build_mesh(the_case.geometry);
   progress.start("writing mesh");
+  require_finite_mesh(meshed.mesh, meshed.stats);
   const std::filesystem::path staging(folder.staging());
   write_field_vtu((staging / "mesh.vtu").string(), meshed.mesh, nullptr);
   write_file_atomically((staging / "summary.json").string(), mesh_summary_json(meshed.mesh, meshed.stats));

@@ -1,17 +1,25 @@
 // hvstress: the command line (spec/cli.md). Parses options with CLI11 and hands over to the
 // subcommands in commands.cpp; maps errors to exit codes: 2 bad input or usage, 1 other failures.
+#include <algorithm>
 #include <cstdio>
 #include <exception>
+#include <string>
+#include <vector>
 
 #include <CLI/CLI.hpp>
 
 #include "mesh/base.h"
+#include "tools/app/blas_threads.h"
 #include "tools/app/commands.h"
 #include "tools/app/compare.h"
 #include "tools/app/optimize.h"
 #include "tools/app/sweep.h"
+#include "tools/case/suggest.h"
 
 namespace {
+
+// More parallel runs than this is a typo, not a machine.
+constexpr int kMostJobs = 1024;
 
 constexpr const char* kCaution =
     "CAUTION: high voltage can kill. hvstress computes fields of an idealised model; its results are a\n"
@@ -22,6 +30,32 @@ void add_case_options(CLI::App& command, hv::CommandOptions& options) {
   command.add_option("CASE", options.case_path, "the case file (YAML)")->required()->check(CLI::ExistingFile);
   command.add_option("--set", options.overrides,
                      "override a parameter, NAME=VALUE in the case file's syntax (repeatable)");
+}
+
+// A number between 0 and 1, both excluded (CLI11's own range check prints its bounds to 300 digits).
+const CLI::Validator kFraction(
+    [](std::string& text) {
+      double value = 0.0;
+      if (CLI::detail::lexical_cast(text, value) && value > 0.0 && value < 1.0) return std::string();
+      return "must lie between 0 and 1, got " + text;
+    },
+    "FRACTION");
+
+// CLI11 answers a misspelt command with "A subcommand is required"; this names the word instead,
+// with the nearest command. Empty when the first word that is no option is a command (or there
+// is none). The top-level options take no values, so that word is the command.
+std::string unknown_command(CLI::App& app, int argc, char** argv) {
+  for (int i = 1; i < argc; ++i) {
+    const std::string word = argv[i];
+    if (word.rfind('-', 0) == 0) continue;
+    std::vector<std::string> names;
+    for (const CLI::App* command : app.get_subcommands([](const CLI::App*) { return true; }))
+      names.push_back(command->get_name());
+    if (std::find(names.begin(), names.end(), word) != names.end()) return "";
+    const std::string suggestion = hv::did_you_mean(word, names);
+    return "unknown command `" + word + "`. " + (suggestion.empty() ? "Commands: " + hv::quoted_list(names) : suggestion);
+  }
+  return "";
 }
 
 void add_output_options(CLI::App& command, hv::CommandOptions& options) {
@@ -65,7 +99,7 @@ int main(int argc, char** argv) {
   sweep->add_option("--set", sweep_options.overrides, "override a parameter for every variant, NAME=VALUE");
   sweep->add_option("-o,--output", sweep_options.output_dir, "sweep folder (default: <case output.dir>-sweep)");
   sweep->add_option("--jobs", sweep_options.jobs, "variants run at once (default: the number of cores)")
-      ->check(CLI::NonNegativeNumber);
+      ->check(CLI::Range(0, kMostJobs));
   sweep->add_option("--shard", sweep_options.shard, "K/N: run only every N-th variant starting at the K-th");
   sweep->footer("example: hvstress sweep cases/ring-study.yaml --vary ring_R=200mm:400mm:5 --vary tube_r=30mm,50mm");
 
@@ -85,7 +119,7 @@ int main(int argc, char** argv) {
       ->check(CLI::IsMember({"max-inception", "min-field", "min-size-with-margin"}));
   optimize->add_option("--set", optimize_options.overrides, "override a parameter, NAME=VALUE");
   optimize->add_option("--tolerance", optimize_options.tolerance, "stop when the parameters are known to this "
-                       "fraction of their ranges (default 1e-3)")->check(CLI::PositiveNumber);
+                       "fraction of their ranges (default 1e-3)")->check(kFraction);
   optimize->add_option("-o,--output", optimize_options.output_dir, "folder (default: <case output.dir>-optimize)");
   optimize->footer("example: hvstress optimize cases/ring-study.yaml --vary tube_r=20mm:80mm --goal min-size-with-margin");
 
@@ -97,6 +131,10 @@ int main(int argc, char** argv) {
   demo->add_flag("--json", options.json, "print summary.json to stdout instead of the table");
   demo->footer("example: hvstress demo -o demo-results");
 
+  if (const std::string problem = unknown_command(app, argc, argv); !problem.empty()) {
+    std::fprintf(stderr, "error: %s\nRun with --help for more information.\n", problem.c_str());
+    return 2;
+  }
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& error) {
@@ -104,6 +142,7 @@ int main(int argc, char** argv) {
     return code == 0 ? 0 : 2;
   }
 
+  hv::use_one_blas_thread();  // bit-identical results whatever the thread settings
   try {
     if (*run) return hv::run_command(options);
     if (*check) return hv::check_command(options);

@@ -7,6 +7,7 @@
 
 #include "postproc/surface_fields.h"
 #include "postproc/writers.h"
+#include "tools/app/finite_results.h"
 
 namespace hv {
 
@@ -144,6 +145,7 @@ void write_run_outputs(const RunOutcome& outcome, const Case& the_case, const st
   const RunResults& results = outcome.results;
   const std::filesystem::path folder(dir);
   const OutputSpec& wanted = the_case.output;
+  require_finite_results(results);  // before the first file: no NaN reaches any of them
   if (wanted.vtk) {
     write_field_vtu((folder / "field.vtu").string(), *results.mesh, &results);
     write_surfaces_vtp((folder / "surfaces.vtp").string(), results);

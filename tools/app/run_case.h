@@ -43,7 +43,8 @@ std::unique_ptr<RunOutcome> compute_case(const Case& the_case, const StepListene
 // Writes the outputs the case asks for (summary.json always; field.vtu and surfaces.vtp when
 // output.vtk, surface-field.csv when output.csv, report.md when output.report; with an onset
 // evaluation also onset.csv and fieldlines.vtp) into the folder
-// `dir`, which must exist.
+// `dir`, which must exist. Throws RunError, writing nothing, when a number that must be finite is not
+// (finite_results.h).
 void write_run_outputs(const RunOutcome& outcome, const Case& the_case, const std::string& dir);
 
 }  // namespace hv

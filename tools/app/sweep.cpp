@@ -17,6 +17,7 @@
 #include "mesh/base.h"
 #include "postproc/text_format.h"
 #include "tools/app/compare.h"
+#include "tools/app/output_folder.h"
 #include "tools/app/sweep_processes.h"
 #include "tools/case/case.h"
 
@@ -410,6 +411,8 @@ int sweep_command(const SweepOptions& options) {
 
   std::vector<VariantRun> runs;
   for (const Variant& variant : variants) runs.push_back(plan_variant(variant, options, base, sweep_folder));
+  // A killed sweep's variants may have left staging folders beside finished (reused) variants too.
+  for (const VariantRun& run : runs) remove_stale_staging((sweep_folder / run.folder()).string());
 
   const int jobs = options.jobs > 0 ? options.jobs : std::max(1, static_cast<int>(std::thread::hardware_concurrency()));
   int stopped_by = 0;

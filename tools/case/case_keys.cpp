@@ -90,6 +90,8 @@ const std::vector<CaseKey>& case_keys() {
       {"mesh.max_size", T::Value, K::Length, "domain size / 10",
        "largest element anywhere (default: a tenth of the open radius or of the box's longer side)"},
       {"mesh.growth", T::Value, K::Number, "1.3", "largest size ratio of neighbouring elements, above 1"},
+      {"mesh.max_elements", T::Integer, K::Number, "5000000",
+       "refuse to mesh when the sizes call for more triangles than this (an estimate, checked before meshing)"},
 
       {"gas", T::Section, K::Number, "air", "the insulating gas around the shapes"},
       {"gas.name", T::Choice, K::Number, "air", "the gas; `table` reads its coefficients from a file",

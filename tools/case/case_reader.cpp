@@ -3,10 +3,13 @@
 // column and key path.
 #include <algorithm>
 #include <cctype>
+#include <cerrno>
 #include <cmath>
+#include <cstdio>
+#include <cstring>
 #include <filesystem>
-#include <fstream>
 #include <map>
+#include <memory>
 #include <optional>
 #include <set>
 #include <sstream>
@@ -22,6 +25,10 @@
 namespace hv {
 
 namespace {
+
+// Case files are a few kilobytes. Anything above this is not a case (or is a device such as
+// /dev/zero), and is refused before it fills the memory.
+constexpr std::size_t kMaxCaseFileBytes = 10u << 20;
 
 // A value of the case file and its place.
 struct Entry {
@@ -137,6 +144,7 @@ class CaseReader {
     geometry.ground_plane = read_ground_plane(top.get("ground_plane"));
     geometry.domain = read_domain(top.get("domain"), geometry);
     geometry.mesh = read_mesh(top.get("mesh"));
+    require_fixed_potential(top, geometry);
     result.gas = read_gas(top.get("gas"));
     result.onset = read_onset(top.get("onset"));
     result.output = read_output(top.get("output"));
@@ -182,7 +190,18 @@ class CaseReader {
 
   // ---- Structure --------------------------------------------------------------------------------
 
+  // Line and column (1-based) of a byte offset into the text.
+  SourceLocation at_offset(std::size_t offset) const {
+    const std::size_t line_start = offset == 0 ? 0 : text_.rfind('\n', offset - 1) + 1;  // npos + 1 == 0
+    const auto line = 1 + std::count(text_.begin(), text_.begin() + static_cast<std::ptrdiff_t>(line_start), '\n');
+    return SourceLocation{file_, static_cast<int>(line), static_cast<int>(offset - line_start) + 1, ""};
+  }
+
   Entry load() const {
+    const std::size_t nul = text_.find('\0');
+    if (nul != std::string::npos)
+      throw InputError(at_offset(nul), "the case file holds binary data (a NUL byte), not YAML text",
+                       "Check that this is the case file; save it as plain text (UTF-8)");
     YAML::Node root;
     try {
       root = YAML::Load(text_);
@@ -713,9 +732,32 @@ class CaseReader {
         fail(*growth, "growth must be greater than 1, got `" + growth->node.Scalar() + "`",
              "Typical values are 1.1 to 1.5");
     }
+    if (const auto limit = fields.get("max_elements")) {
+      mesh.max_elements = integer(*limit);
+      if (mesh.max_elements < 1)
+        fail(*limit, "max_elements must be at least 1, got `" + limit->node.Scalar() + "`",
+             "Leave it out for the default of 5000000 triangles");
+    }
     if (mesh.surface_size > 0.0 && mesh.max_size > 0.0 && mesh.surface_size > mesh.max_size)
       fail(*fields.get("surface_size"), "surface_size is larger than max_size", "Make surface_size at most max_size");
     return mesh;
+  }
+
+  // Something must set the potential: a ground plane or an electrode with a fixed potential (box
+  // sides only name such electrodes). Else the solver would find no field to compute.
+  void require_fixed_potential(const Fields& top, const GeometrySpec& geometry) const {
+    if (geometry.ground_plane.present) return;
+    if (std::any_of(geometry.electrodes.begin(), geometry.electrodes.end(),
+                    [](const ElectrodeSpec& electrode) { return !electrode.floating; }))
+      return;
+    const std::optional<Entry> electrodes = top.get("electrodes");
+    const std::string problem = "nothing sets the potential: " +
+                                std::string(geometry.electrodes.empty() ? "there are no electrodes"
+                                                                        : "every electrode is floating") +
+                                " and there is no ground plane";
+    const std::string hint = "Give an electrode a fixed `potential` (e.g. `potential: 0`) or add `ground_plane: {z: 0}`";
+    if (electrodes) fail_at_key(*electrodes, problem, hint);
+    throw InputError(SourceLocation{file_, 1, 1, "electrodes"}, problem, hint);
   }
 
   GasSpec read_gas(const std::optional<Entry>& entry) const {
@@ -807,13 +849,33 @@ Case parse_case(const std::string& text, const std::string& file_label, const st
   return CaseReader(text, file_label).read(overrides);
 }
 
+namespace {
+
+// The whole file at `path`. A read error (EIO, a folder) is reported as such rather than read as
+// an empty file; a file above kMaxCaseFileBytes is refused.
+std::string read_case_text(const std::string& path) {
+  const SourceLocation where{path, 0, 0, ""};
+  const auto unreadable = [&] {
+    return InputError(where, "cannot read the case file", std::string(std::strerror(errno)) + ": check the path and permissions");
+  };
+  const std::unique_ptr<std::FILE, int (*)(std::FILE*)> file(std::fopen(path.c_str(), "rb"), &std::fclose);
+  if (!file) throw unreadable();
+  std::string text;
+  char buffer[1 << 16];
+  while (const std::size_t got = std::fread(buffer, 1, sizeof buffer, file.get())) {
+    text.append(buffer, got);
+    if (text.size() > kMaxCaseFileBytes)
+      throw InputError(where, "the case file is larger than " + std::to_string(kMaxCaseFileBytes >> 20) + " MB",
+                       "A case file is a short YAML text; check that this is the right file");
+  }
+  if (std::ferror(file.get())) throw unreadable();
+  return text;
+}
+
+}  // namespace
+
 Case read_case(const std::string& path, const std::vector<std::string>& overrides) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in.is_open())
-    throw InputError(SourceLocation{path, 0, 0, ""}, "cannot read the case file", "Check the path and permissions");
-  std::ostringstream text;
-  text << in.rdbuf();
-  return parse_case(text.str(), path, overrides);
+  return parse_case(read_case_text(path), path, overrides);
 }
 
 }  // namespace hv

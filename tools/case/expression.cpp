@@ -13,6 +13,10 @@ namespace hv {
 namespace {
 
 constexpr double kPi = 3.14159265358979323846;
+// Deepest nesting of parentheses, function calls, signs and exponents. Each level costs a few stack
+// frames of the recursive descent; a limit far above any real value keeps absurd input (thousands
+// of `(`) from overflowing the stack.
+constexpr int kMaxNesting = 200;
 
 struct Function {
   const char* name;
@@ -31,6 +35,16 @@ const Function* find_function(const std::string& name) {
 bool is_identifier_start(char c) { return std::isalpha(static_cast<unsigned char>(c)) || c == '_'; }
 bool is_identifier_char(char c) { return std::isalnum(static_cast<unsigned char>(c)) || c == '_'; }
 bool is_digit(char c) { return std::isdigit(static_cast<unsigned char>(c)) != 0; }
+
+// No physical quantity needs a unit exponent beyond this; refusing larger ones also keeps the
+// integer exponents of a Dimension from overflowing (found by fuzzing: `m^1e47`, `((m^9)^9)^9...`).
+constexpr double kMaxUnitExponent = 64;
+
+bool power_keeps_unit_exponents_small(const Dimension& base, double exponent) {
+  for (int base_exponent : base.exponents)
+    if (std::abs(base_exponent * exponent) > kMaxUnitExponent) return false;
+  return true;
+}
 
 std::string exponent_text(double exponent) {
   std::string text = std::to_string(exponent);
@@ -114,8 +128,19 @@ class Parser {
     }
   }
 
+  // Every recursion of the grammar passes through here, so this is where nesting is counted.
   Quantity signed_value() {
     skip_spaces();
+    if (depth_ == kMaxNesting)
+      fail(pos_, "the value nests deeper than " + std::to_string(kMaxNesting) + " levels",
+           "Simplify it: use fewer parentheses, signs or `^`, or split it into parameters");
+    ++depth_;
+    const Quantity result = sign_or_power();
+    --depth_;
+    return result;
+  }
+
+  Quantity sign_or_power() {
     if (accept('-')) {
       Quantity operand = signed_value();
       operand.value = -operand.value;
@@ -138,6 +163,9 @@ class Parser {
     if (whole != exponent.value)
       fail(op, describe_dimension(base.dimension) + " raised to " + exponent_text(exponent.value) + " has no unit",
            "Raise a quantity with a unit only to a whole power; use sqrt for a square root");
+    if (!power_keeps_unit_exponents_small(base.dimension, whole))
+      fail(op, describe_dimension(base.dimension) + " raised to " + exponent_text(whole) + " has no unit",
+           "Keep the power of each unit within " + exponent_text(kMaxUnitExponent));
     return {std::pow(base.value, exponent.value), power(base.dimension, static_cast<int>(whole))};
   }
 
@@ -315,6 +343,7 @@ class Parser {
   const Variables& variables_;
   const SourceLocation& where_;
   std::size_t pos_ = 0;
+  int depth_ = 0;  // signed values being parsed, one inside the other
 };
 
 }  // namespace
