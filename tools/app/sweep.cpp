@@ -9,6 +9,7 @@
 #include <cstdint>
 #include <cstdio>
 #include <cstring>
+#include <exception>
 #include <filesystem>
 #include <fstream>
 #include <sstream>
@@ -37,6 +38,7 @@ struct VariantRun {
   Status status = Status::Pending;
   bool reused = false;                 // finished in an earlier sweep with the same resolved case
   std::string message;                 // why it failed
+  std::exception_ptr bad_input;        // the InputError of a variant whose case is bad input
 
   std::string name() const { return "v" + std::to_string(variant.index) + "-" + key; }
   std::string folder() const { return "variants/" + name(); }
@@ -128,6 +130,7 @@ VariantRun plan_variant(const Variant& variant, const SweepOptions& options, con
     run.key = variant_key(base.text, {}, run.overrides);
     run.status = Status::Failed;
     run.message = error.what();
+    run.bad_input = std::current_exception();
     return run;
   }
   if (fs::exists(sweep_folder / run.folder() / "summary.json")) {
@@ -407,10 +410,13 @@ int sweep_command(const SweepOptions& options) {
   const Case base = read_case(options.case_path, options.overrides);  // bad input stops here, before any file
   const std::vector<Variant> variants = variants_of(options, base);
   const fs::path sweep_folder = sweep_folder_for(options, base);
-  prepare_sweep_folder(sweep_folder);
-
   std::vector<VariantRun> runs;
   for (const Variant& variant : variants) runs.push_back(plan_variant(variant, options, base, sweep_folder));
+  // When no variant is a valid design the sweep itself is bad input (e.g. a voltage given for a
+  // length): say why, before anything is created.
+  if (std::all_of(runs.begin(), runs.end(), [](const VariantRun& run) { return run.bad_input != nullptr; }))
+    std::rethrow_exception(runs.front().bad_input);
+  prepare_sweep_folder(sweep_folder);
   // A killed sweep's variants may have left staging folders beside finished (reused) variants too.
   for (const VariantRun& run : runs) remove_stale_staging((sweep_folder / run.folder()).string());
 
