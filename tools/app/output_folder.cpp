@@ -199,6 +199,13 @@ OutputFolder::OutputFolder(std::string destination) : destination_(std::move(des
   require_replaceable(final_path);
   std::error_code error;
   fs::create_directories(final_path.parent_path(), error);
+  // A parent that is a file is the user's choice of path, not an I/O failure.
+  for (fs::path parent = final_path.parent_path(); !parent.empty() && parent != parent.root_path(); parent = parent.parent_path()) {
+    if (fs::exists(parent, error) && !fs::is_directory(parent, error))
+      throw InputError(SourceLocation{"", 0, 0, "output folder " + destination_},
+                       parent.string() + " is a file, so no folder can be made under it",
+                       "choose an output folder with -o whose parents are folders");
+  }
   remove_stale_staging(final_path.string());
   staging_ = final_path.string() + ".tmp-" + std::to_string(::getpid());
   if (!fs::create_directory(staging_, error)) {
