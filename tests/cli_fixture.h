@@ -12,6 +12,25 @@
 
 namespace hv::testing {
 
+// An isolated sphere with discharge onset in air: every kind of output, about 0.2 s a run. The
+// tests of interrupted runs, sweeps, determinism and finite outputs share it.
+inline const char* const kSphereWithOnsetCase = R"(hvstress: 1
+title: isolated sphere with onset
+units: {length: mm, voltage: kV}
+parameters:
+  U: 100 kV
+  R: 50 mm
+electrodes:
+  sphere: {potential: U}
+shapes:
+  - name: ball
+    circle: {center: [0, 0], radius: R}
+    electrode: sphere
+domain: {outer: open, radius: 10*R}
+gas: {name: air, pressure: 101.325 kPa, temperature: 20 degC}
+onset: {criterion: streamer, polarity: both, operating: U}
+)";
+
 struct Invocation {
   int exit_code = -1;
   std::string out;

@@ -38,27 +38,10 @@ TEST(Determinism, RunsAgreeBitForBitAcrossRunsAndThreadCounts) {
   EXPECT_EQ(results_of(box.root() / "one"), reference) << "one thread against two";
 }
 
-// An isolated sphere with discharge onset in air: about 0.2 s a run.
-const char* kSphereCase = R"(hvstress: 1
-title: isolated sphere with onset
-units: {length: mm, voltage: kV}
-parameters:
-  U: 100 kV
-  R: 50 mm
-electrodes:
-  sphere: {potential: U}
-shapes:
-  - name: ball
-    circle: {center: [0, 0], radius: R}
-    electrode: sphere
-domain: {outer: open, radius: 10*R}
-gas: {name: air, pressure: 101.325 kPa, temperature: 20 degC}
-onset: {criterion: streamer, polarity: both, operating: U}
-)";
 
 TEST(Determinism, SweepVariantsAgreeAcrossJobCounts) {
   Sandbox box;
-  box.write("sphere.yaml", kSphereCase);
+  box.write("sphere.yaml", testing::kSphereWithOnsetCase);
   const std::string sweep = "sweep sphere.yaml --vary R=20mm:50mm:3 --quiet -o ";
   // Unset thread variables: with --jobs 1 the variant uses every core, with --jobs 2 one thread each.
   ASSERT_EQ(testing::hvstress_with_environment(box.root(), "-u OMP_NUM_THREADS -u OPENBLAS_NUM_THREADS",

@@ -7,6 +7,7 @@
 #include <cmath>
 #include <filesystem>
 #include <limits>
+#include <memory>
 #include <regex>
 #include <string>
 
@@ -20,36 +21,18 @@ namespace {
 namespace fs = std::filesystem;
 using testing::Sandbox;
 
-// An isolated sphere with discharge onset in air: every kind of output, about 0.2 s.
-const char* kSphereCase = R"(hvstress: 1
-title: isolated sphere with onset
-units: {length: mm, voltage: kV}
-parameters:
-  U: 100 kV
-  R: 50 mm
-electrodes:
-  sphere: {potential: U}
-shapes:
-  - name: ball
-    circle: {center: [0, 0], radius: R}
-    electrode: sphere
-domain: {outer: open, radius: 10*R}
-gas: {name: air, pressure: 101.325 kPa, temperature: 20 degC}
-onset: {criterion: streamer, polarity: both, operating: U}
-output: {dir: out, vtk: true, csv: true, report: true}
-)";
-
 class FiniteOutputs : public ::testing::Test {
  protected:
+  // One solved case shared by the suite (a solve is the slow part).
   static void SetUpTestSuite() {
-    box_ = new Sandbox;
-    case_ = new Case(read_case(box_->write("sphere.yaml", kSphereCase).string()));
-    outcome_ = compute_case(*case_).release();
+    box_ = std::make_unique<Sandbox>();
+    case_ = std::make_unique<Case>(read_case(box_->write("sphere.yaml", testing::kSphereWithOnsetCase).string()));
+    outcome_ = compute_case(*case_);
   }
   static void TearDownTestSuite() {
-    delete outcome_;
-    delete case_;
-    delete box_;
+    outcome_.reset();
+    case_.reset();
+    box_.reset();
   }
 
   // The message of the RunError that writing the outcome gives, "" when it writes; checks that a
@@ -75,14 +58,14 @@ class FiniteOutputs : public ::testing::Test {
     return message;
   }
 
-  static Sandbox* box_;
-  static Case* case_;
-  static RunOutcome* outcome_;
+  static std::unique_ptr<Sandbox> box_;
+  static std::unique_ptr<Case> case_;
+  static std::unique_ptr<RunOutcome> outcome_;
 };
 
-Sandbox* FiniteOutputs::box_ = nullptr;
-Case* FiniteOutputs::case_ = nullptr;
-RunOutcome* FiniteOutputs::outcome_ = nullptr;
+std::unique_ptr<Sandbox> FiniteOutputs::box_;
+std::unique_ptr<Case> FiniteOutputs::case_;
+std::unique_ptr<RunOutcome> FiniteOutputs::outcome_;
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 constexpr double kInfinity = std::numeric_limits<double>::infinity();

@@ -160,23 +160,6 @@ TEST(RunKillTest, DestinationIsTheEarlierOrTheNewCompleteResultOrAbsent) {
   EXPECT_EQ(testing::staging_leftovers(box.root()), "");
 }
 
-// An isolated sphere with discharge onset in air: about 0.2 s a run.
-const char* kSphereCase = R"(hvstress: 1
-title: isolated sphere with onset
-units: {length: mm, voltage: kV}
-parameters:
-  U: 100 kV
-  R: 50 mm
-electrodes:
-  sphere: {potential: U}
-shapes:
-  - name: ball
-    circle: {center: [0, 0], radius: R}
-    electrode: sphere
-domain: {outer: open, radius: 10*R}
-gas: {name: air, pressure: 101.325 kPa, temperature: 20 degC}
-onset: {criterion: streamer, polarity: both, operating: U}
-)";
 
 // Why some variant folder of `sweep` is not complete, or "". The variants differ only in R, so each
 // is compared with a reference run of its own R (read from its summary.json), kept in `references`.
@@ -204,7 +187,7 @@ std::string incomplete_variant(const fs::path& sweep, Sandbox& box) {
 // (PR_SET_CHILD_SUBREAPER), so it can wait for them.
 TEST(SweepKillTest, EveryVariantFolderIsCompleteAndTheSweepResumes) {
   Sandbox box;
-  box.write("sphere.yaml", kSphereCase);
+  box.write("sphere.yaml", testing::kSphereWithOnsetCase);
   ASSERT_EQ(::prctl(PR_SET_CHILD_SUBREAPER, 1), 0);
   const std::vector<std::string> args = {"sweep", "sphere.yaml", "--vary", "R=20mm:50mm:4", "-o", "study", "--jobs", "2", "--quiet"};
   const double sweep_seconds = longest_of_three(box, args);

@@ -123,23 +123,6 @@ TEST(SelectShard, ShardsCoverEveryVariantOnce) {
 
 // ---- sweeps run end to end ----
 
-// An isolated sphere with discharge onset in air: about 0.3 s a run.
-const char* kSphereCase = R"(hvstress: 1
-title: isolated sphere with onset
-units: {length: mm, voltage: kV}
-parameters:
-  U: 100 kV
-  R: 50 mm
-electrodes:
-  sphere: {potential: U}
-shapes:
-  - name: ball
-    circle: {center: [0, 0], radius: R}
-    electrode: sphere
-domain: {outer: open, radius: 10*R}
-gas: {name: air, pressure: 101.325 kPa, temperature: 20 degC}
-onset: {criterion: streamer, polarity: both, operating: U}
-)";
 
 // The number after the last of `anchors`, each searched after the one before, in a summary.json.
 double number_after(const std::string& json, const std::vector<std::string>& anchors) {
@@ -205,7 +188,7 @@ std::string record_of(const fs::path& sweep, int index) {
 
 TEST(Sweep, EveryVariantEqualsTheDesignRunAlone) {
   Sandbox box;
-  box.write("sphere.yaml", kSphereCase);
+  box.write("sphere.yaml", testing::kSphereWithOnsetCase);
   const auto sweep = box.hvstress("sweep sphere.yaml --vary R=30mm,40mm,50mm --vary U=80kV:100kV:2 -o study --jobs 2 --quiet");
   ASSERT_EQ(sweep.exit_code, 0) << sweep.err;
   // Grid order: R slowest.
@@ -289,7 +272,7 @@ pid_t start_hvstress(const fs::path& folder, const std::vector<std::string>& arg
 
 TEST(Sweep, ResumesAfterCtrlCWithoutRecomputingFinishedVariants) {
   Sandbox box;
-  box.write("sphere.yaml", kSphereCase);
+  box.write("sphere.yaml", testing::kSphereWithOnsetCase);
   const std::vector<std::string> args = {"sweep", "sphere.yaml", "--vary", "R=20mm:55mm:8", "-o", "study", "--jobs", "1", "--quiet"};
   const pid_t sweep = start_hvstress(box.root(), args);
   ASSERT_GT(sweep, 0);
@@ -328,7 +311,7 @@ TEST(Sweep, ResumesAfterCtrlCWithoutRecomputingFinishedVariants) {
 
 TEST(Sweep, ABadValueFailsOnlyItsVariant) {
   Sandbox box;
-  box.write("sphere.yaml", kSphereCase);
+  box.write("sphere.yaml", testing::kSphereWithOnsetCase);
   const auto sweep = box.hvstress("sweep sphere.yaml --vary R=30mm,-5mm,40mm -o study --jobs 2 --quiet");
   EXPECT_EQ(sweep.exit_code, 1);
   const fs::path study = box.root() / "study";
@@ -343,7 +326,7 @@ TEST(Sweep, ABadValueFailsOnlyItsVariant) {
 
 TEST(Sweep, ShardsTogetherRunEveryVariant) {
   Sandbox box;
-  box.write("sphere.yaml", kSphereCase);
+  box.write("sphere.yaml", testing::kSphereWithOnsetCase);
   const std::string study = "sweep sphere.yaml --vary R=20mm:40mm:5 --jobs 2 --quiet";
   ASSERT_EQ(box.hvstress(study + " --shard 1/2 -o first").exit_code, 0);
   ASSERT_EQ(box.hvstress(study + " --shard 2/2 -o second").exit_code, 0);
@@ -359,7 +342,7 @@ TEST(Sweep, ShardsTogetherRunEveryVariant) {
 
 TEST(Sweep, BadInputStopsBeforeAnythingIsWritten) {
   Sandbox box;
-  box.write("sphere.yaml", kSphereCase);
+  box.write("sphere.yaml", testing::kSphereWithOnsetCase);
   const auto unknown = box.hvstress("sweep sphere.yaml --vary radius=30mm,40mm -o study --quiet");
   EXPECT_EQ(unknown.exit_code, 2);
   EXPECT_NE(unknown.err.find("--vary radius"), std::string::npos) << unknown.err;
