@@ -4,11 +4,13 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
+#include <csignal>
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <sstream>
 #include <string>
+#include <vector>
 
 namespace hv::testing {
 
@@ -86,5 +88,26 @@ class Sandbox {
  private:
   std::filesystem::path root_;
 };
+
+// Starts `hvstress ARGS...` in `folder` in a process group of its own (so that the variants of a sweep
+// can be stopped with it), output discarded, OpenBLAS on one thread as in Sandbox::hvstress.
+inline pid_t start_hvstress(const std::filesystem::path& folder, const std::vector<std::string>& args) {
+  std::vector<std::string> texts = {HV_BINARY};
+  texts.insert(texts.end(), args.begin(), args.end());
+  std::vector<char*> argv;
+  for (std::string& text : texts) argv.push_back(text.data());
+  argv.push_back(nullptr);
+  const pid_t pid = ::fork();
+  if (pid == 0) {
+    ::setpgid(0, 0);
+    if (::chdir(folder.c_str()) != 0) ::_exit(126);
+    if (!::freopen("/dev/null", "w", stdout) || !::freopen("/dev/null", "w", stderr)) ::_exit(126);
+    ::setenv("OPENBLAS_NUM_THREADS", "1", 1);
+    ::execv(argv[0], argv.data());
+    ::_exit(127);
+  }
+  ::setpgid(pid, pid);  // also here, so that it holds before the child runs
+  return pid;
+}
 
 }  // namespace hv::testing

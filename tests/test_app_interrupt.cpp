@@ -33,27 +33,6 @@ using testing::Sandbox;
 
 using Clock = std::chrono::steady_clock;
 
-// Starts `hvstress ARGS...` in `folder` in a process group of its own (so that the variants of a sweep
-// can be stopped with it), output discarded, OpenBLAS on one thread as in Sandbox::hvstress.
-pid_t start_hvstress(const fs::path& folder, const std::vector<std::string>& args) {
-  std::vector<std::string> texts = {HV_BINARY};
-  texts.insert(texts.end(), args.begin(), args.end());
-  std::vector<char*> argv;
-  for (std::string& text : texts) argv.push_back(text.data());
-  argv.push_back(nullptr);
-  const pid_t pid = ::fork();
-  if (pid == 0) {
-    ::setpgid(0, 0);
-    if (::chdir(folder.c_str()) != 0) ::_exit(126);
-    if (!::freopen("/dev/null", "w", stdout) || !::freopen("/dev/null", "w", stderr)) ::_exit(126);
-    ::setenv("OPENBLAS_NUM_THREADS", "1", 1);
-    ::execv(argv[0], argv.data());
-    ::_exit(127);
-  }
-  ::setpgid(pid, pid);  // also here, so that it holds before the child runs
-  return pid;
-}
-
 // Seconds since `start`.
 double seconds_since(Clock::time_point start) { return std::chrono::duration<double>(Clock::now() - start).count(); }
 
@@ -79,7 +58,7 @@ double longest_of_three(const Sandbox& box, const std::vector<std::string>& args
   double longest = 0.0;
   for (int i = 0; i < 3; ++i) {
     const Clock::time_point start = Clock::now();
-    const int status = wait_status(start_hvstress(box.root(), args));
+    const int status = wait_status(testing::start_hvstress(box.root(), args));
     EXPECT_TRUE(WIFEXITED(status) && WEXITSTATUS(status) == 0) << "an uninterrupted run failed";
     longest = std::max(longest, seconds_since(start));
   }
@@ -121,7 +100,7 @@ TEST(RunKillTest, DestinationIsTheEarlierOrTheNewCompleteResultOrAbsent) {
     if (with_earlier) fs::copy(box.root() / "reference-old", destination, fs::copy_options::recursive);
 
     const double delay = moment(random);
-    const pid_t run = start_hvstress(box.root(), {"run", kRingCase, "-o", "results", "--quiet"});
+    const pid_t run = testing::start_hvstress(box.root(), {"run", kRingCase, "-o", "results", "--quiet"});
     std::this_thread::sleep_for(std::chrono::duration<double>(delay));
     ::kill(run, signal_number);
     const int status = wait_status(run);
@@ -199,7 +178,7 @@ TEST(SweepKillTest, EveryVariantFolderIsCompleteAndTheSweepResumes) {
     if (k % 2 == 0) fs::remove_all(box.root() / "study");
     const int signal_number = k % 4 < 2 ? SIGINT : SIGKILL;
     const double delay = moment(random);
-    const pid_t sweep = start_hvstress(box.root(), args);
+    const pid_t sweep = testing::start_hvstress(box.root(), args);
     std::this_thread::sleep_for(std::chrono::duration<double>(delay));
     ::kill(sweep, signal_number);
     if (signal_number == SIGKILL && k % 8 >= 6) ::kill(-sweep, SIGKILL);  // the whole group, variants too
@@ -222,7 +201,7 @@ TEST(SweepKillTest, EveryVariantFolderIsCompleteAndTheSweepResumes) {
   }
   EXPECT_GT(interrupted, 0) << "no kill point stopped a sweep before it ended";
 
-  const pid_t resumed = start_hvstress(box.root(), args);
+  const pid_t resumed = testing::start_hvstress(box.root(), args);
   const int status = wait_status(resumed);
   ASSERT_TRUE(WIFEXITED(status) && WEXITSTATUS(status) == 0) << "wait status " << status;
   EXPECT_EQ(testing::staging_leftovers(box.root() / "study"), "");

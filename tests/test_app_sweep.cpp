@@ -252,29 +252,11 @@ TEST(Sweep, RingStudyTableEqualsEachDesignRunAlone) {
   EXPECT_EQ(rows, 6);
 }
 
-// Starts `hvstress ARGS...` in `folder` without waiting; its output is discarded.
-pid_t start_hvstress(const fs::path& folder, const std::vector<std::string>& args) {
-  std::vector<std::string> texts = {HV_BINARY};
-  texts.insert(texts.end(), args.begin(), args.end());
-  std::vector<char*> argv;
-  for (std::string& text : texts) argv.push_back(text.data());
-  argv.push_back(nullptr);
-  const pid_t pid = ::fork();
-  if (pid == 0) {
-    if (::chdir(folder.c_str()) != 0) ::_exit(126);
-    ::freopen("/dev/null", "w", stdout);
-    ::freopen("/dev/null", "w", stderr);
-    ::execv(argv[0], argv.data());
-    ::_exit(127);
-  }
-  return pid;
-}
-
 TEST(Sweep, ResumesAfterCtrlCWithoutRecomputingFinishedVariants) {
   Sandbox box;
   box.write("sphere.yaml", testing::kSphereWithOnsetCase);
   const std::vector<std::string> args = {"sweep", "sphere.yaml", "--vary", "R=20mm:55mm:8", "-o", "study", "--jobs", "1", "--quiet"};
-  const pid_t sweep = start_hvstress(box.root(), args);
+  const pid_t sweep = testing::start_hvstress(box.root(), args);
   ASSERT_GT(sweep, 0);
   const auto give_up = std::chrono::steady_clock::now() + std::chrono::seconds(60);
   while ((!fs::exists(box.root() / "study" / "variants") || finished_variants(box.root() / "study").empty()) &&
