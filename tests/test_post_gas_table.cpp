@@ -20,7 +20,9 @@ using hv::GasSpec;
 constexpr double kTd = 1e-21;  // V m^2
 
 std::string write_table(const std::string& name, const std::string& contents) {
-  const std::string path = ::testing::TempDir() + "hvstress_gas_table_" + name + ".csv";
+  // Named after the running test too: ctest runs tests in parallel processes, which must not share a file.
+  const std::string test = ::testing::UnitTest::GetInstance()->current_test_info()->name();
+  const std::string path = ::testing::TempDir() + "hvstress_gas_table_" + test + "_" + name + ".csv";
   std::ofstream(path) << contents;
   return path;
 }
