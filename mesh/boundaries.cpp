@@ -49,10 +49,12 @@ const char* side_name(OuterSide side) {
 namespace {
 
 // One side of one triangle: its end nodes in the triangle's counter-clockwise direction, so the
-// triangle lies to the left, and its mid node (-1 for order 1).
+// triangle lies to the left, then its inner nodes in that direction (as in BoundaryEdge).
 struct DirectedEdge {
-  int from = -1, to = -1, mid = -1;
+  BoundaryEdge edge;
   int triangle = -1;
+  int from() const { return edge.nodes[0]; }
+  int to() const { return edge.nodes[1]; }
 };
 
 // What identifies one Boundary: kind, name, conductor, and the region(s) beside it.
@@ -61,10 +63,9 @@ using BoundaryKey = std::tuple<BoundaryKind, std::string, int, int, int>;
 std::map<std::pair<int, int>, std::vector<DirectedEdge>> edges_by_vertices(const Mesh& mesh) {
   std::map<std::pair<int, int>, std::vector<DirectedEdge>> edges;
   for (int t = 0; t < mesh.n_triangles(); ++t) {
-    const int* v = mesh.triangle(t);
     for (int k = 0; k < 3; ++k) {
-      const DirectedEdge edge{v[k], v[(k + 1) % 3], mesh.order == 2 ? v[3 + k] : -1, t};
-      edges[{std::min(edge.from, edge.to), std::max(edge.from, edge.to)}].push_back(edge);
+      const DirectedEdge edge{{mesh.triangle_side(t, k)}, t};
+      edges[{std::min(edge.from(), edge.to()), std::max(edge.from(), edge.to())}].push_back(edge);
     }
   }
   return edges;
@@ -160,18 +161,18 @@ void find_boundaries(const GeometrySpec& spec, const DomainOutline& domain, cons
       const int a = std::min(region, other), b = std::max(region, other);
       grouped[{BoundaryKind::Interface,
                mesh.regions[static_cast<size_t>(a)].name + "|" + mesh.regions[static_cast<size_t>(b)].name, -1, a, b}]
-          .push_back({{left.from, left.to, left.mid}});
+          .push_back(left.edge);
       continue;
     }
-    const BoundaryKey key = one_sided_key(spec, domain, mesh.nodes[static_cast<size_t>(first.from)],
-                                          mesh.nodes[static_cast<size_t>(first.to)],
+    const BoundaryKey key = one_sided_key(spec, domain, mesh.nodes[static_cast<size_t>(first.from())],
+                                          mesh.nodes[static_cast<size_t>(first.to())],
                                           electrode_of(vertices, electrode_edges, node_electrodes), region);
     if (std::get<0>(key) == BoundaryKind::Interface) {
-      const Point p = mesh.nodes[static_cast<size_t>(first.from)];
+      const Point p = mesh.nodes[static_cast<size_t>(first.from())];
       throw RunError("mesher defect: a boundary edge at (r = " + std::to_string(p.r) +
                      " m, z = " + std::to_string(p.z) + " m) lies on no electrode and no side of the domain");
     }
-    grouped[key].push_back({{first.from, first.to, first.mid}});
+    grouped[key].push_back(first.edge);
   }
 
   mesh.boundaries.clear();

@@ -87,7 +87,7 @@ bool conflicting(const ElectrodeSpec& a, const ElectrodeSpec& b) {
 bool grounded(const ElectrodeSpec& e) { return !e.floating && e.potential_V == 0.0; }
 
 void check_mesh_controls(const MeshSpec& mesh) {
-  if (mesh.order != 1 && mesh.order != 2) throw InputError(mesh.where, "mesh.order must be 1 or 2");
+  if (mesh.order < 1 || mesh.order > 3) throw InputError(mesh.where, "mesh.order must be 1, 2 or 3");
   if (!(mesh.surface_size >= 0)) throw InputError(mesh.where, "mesh.surface_size must be positive");
   if (!(mesh.max_size >= 0)) throw InputError(mesh.where, "mesh.max_size must be positive");
   if (!(mesh.growth > 1.0)) throw InputError(mesh.where, "mesh.growth must be larger than 1", "1.2 to 1.5 is usual");

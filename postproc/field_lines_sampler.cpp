@@ -73,7 +73,7 @@ bool is_gas(const Mesh& mesh, int triangle) {
 bool to_reference(const Mesh& mesh, int triangle, bool affine, Point p, double& xi, double& eta) {
   const int n = mesh.nodes_per_triangle();
   const Point& origin = vertex(mesh, triangle, 0);
-  Point local[6];
+  Point local[kMaxTriangleNodes];
   for (int i = 0; i < n; ++i) {
     const Point& node = mesh.nodes[static_cast<size_t>(mesh.triangle(triangle)[i])];
     local[i] = {node.r - origin.r, node.z - origin.z};
@@ -86,7 +86,7 @@ bool to_reference(const Mesh& mesh, int triangle, bool affine, Point p, double& 
   eta = (-local[1].z * target.r + local[1].r * target.z) / det;
   if (affine) return true;
   for (int iteration = 0; iteration < kNewtonIterations; ++iteration) {
-    double N[6], dN_dxi[6], dN_deta[6];
+    double N[kMaxTriangleNodes], dN_dxi[kMaxTriangleNodes], dN_deta[kMaxTriangleNodes];
     triangle_shape(mesh.order, xi, eta, N, dN_dxi, dN_deta);
     double r = 0, z = 0, r_xi = 0, r_eta = 0, z_xi = 0, z_eta = 0;
     for (int i = 0; i < n; ++i) {
@@ -106,33 +106,50 @@ bool to_reference(const Mesh& mesh, int triangle, bool affine, Point p, double& 
   return false;
 }
 
-// A P1 triangle, or a P2 one whose mid nodes lie at the midpoints of its straight edges (to rounding):
-// its isoparametric map is affine. Most triangles of a mesh are; only those on curved boundaries bend.
+// A P1 triangle, or a P2 or P3 one whose other nodes lie where the affine map of its vertices puts
+// them (to rounding): its isoparametric map is affine. Most triangles of a mesh are; only those on
+// curved boundaries bend.
 bool has_affine_map(const Mesh& mesh, int triangle) {
-  if (mesh.order == 1) return true;
-  for (int k = 0; k < 3; ++k) {
-    const Point& a = vertex(mesh, triangle, k);
-    const Point& b = vertex(mesh, triangle, k + 1);
-    const Point& m = mesh.nodes[static_cast<size_t>(mesh.triangle(triangle)[3 + k])];
-    if (std::abs(2 * m.r - a.r - b.r) + std::abs(2 * m.z - a.z - b.z) > 1e-13 * std::hypot(b.r - a.r, b.z - a.z))
-      return false;
+  const Point& origin = vertex(mesh, triangle, 0);
+  const Point& v1 = vertex(mesh, triangle, 1);
+  const Point& v2 = vertex(mesh, triangle, 2);
+  const double size = std::hypot(v1.r - origin.r, v1.z - origin.z) + std::hypot(v2.r - origin.r, v2.z - origin.z);
+  for (int i = 3; i < mesh.nodes_per_triangle(); ++i) {
+    double xi, eta;
+    triangle_node_reference(mesh.order, i, &xi, &eta);
+    const Point& m = mesh.nodes[static_cast<size_t>(mesh.triangle(triangle)[i])];
+    const double r = origin.r + xi * (v1.r - origin.r) + eta * (v2.r - origin.r);
+    const double z = origin.z + xi * (v1.z - origin.z) + eta * (v2.z - origin.z);
+    if (std::abs(m.r - r) + std::abs(m.z - z) > 1e-13 * size) return false;
   }
   return true;
 }
 
-// A box around a triangle. A P2 triangle is a quadratic Bezier triangle whose control points are its
-// vertices and, per edge, 2 m - (a + b) / 2 (mid node m, end vertices a, b); it lies in their convex hull
-// (Farin, Curves and Surfaces for CAGD, Bezier triangles), hence in their box.
+// A box around a triangle. A P2 or P3 triangle is a Bezier triangle of its degree, which lies in the
+// convex hull of its control points (Farin, Curves and Surfaces for CAGD, Bezier triangles), hence in
+// their box. The control points are the vertices and, from the Lagrange nodes: per P2 edge (mid node m,
+// ends a, b) 2 m - (a + b) / 2; per P3 edge (nodes p, q at 1/3 and 2/3) (18 p - 9 q - 5 a + 2 b) / 6 and
+// (2 a - 9 p + 18 q - 5 b) / 6; for the P3 interior node x, (9/2) x - (sum of vertices) / 6 - (sum of
+// edge control points) / 2 (the Bernstein polynomials at the centroid weigh them 1/27, 1/9 and 2/9).
 Box triangle_box(const Mesh& mesh, int triangle) {
   Box box;
-  for (int k = 0; k < 3; ++k) box.add(vertex(mesh, triangle, k));
-  if (mesh.order == 2)
-    for (int k = 0; k < 3; ++k) {
-      const Point& a = vertex(mesh, triangle, k);
-      const Point& b = vertex(mesh, triangle, k + 1);
-      const Point& m = mesh.nodes[static_cast<size_t>(mesh.triangle(triangle)[3 + k])];
-      box.add({2 * m.r - (a.r + b.r) / 2, 2 * m.z - (a.z + b.z) / 2});
-    }
+  const int* node = mesh.triangle(triangle);
+  auto at = [&](int i) { return mesh.nodes[static_cast<size_t>(node[i])]; };
+  Point vertices, edge_controls;
+  for (int k = 0; k < 3; ++k) {
+    const Point a = at(k), b = at((k + 1) % 3);
+    box.add(a);
+    vertices.r += a.r, vertices.z += a.z;
+    if (mesh.order == 2) box.add({2 * at(3 + k).r - (a.r + b.r) / 2, 2 * at(3 + k).z - (a.z + b.z) / 2});
+    if (mesh.order != 3) continue;
+    const Point p = at(3 + 2 * k), q = at(4 + 2 * k);
+    const Point c1{(18 * p.r - 9 * q.r - 5 * a.r + 2 * b.r) / 6, (18 * p.z - 9 * q.z - 5 * a.z + 2 * b.z) / 6};
+    const Point c2{(2 * a.r - 9 * p.r + 18 * q.r - 5 * b.r) / 6, (2 * a.z - 9 * p.z + 18 * q.z - 5 * b.z) / 6};
+    box.add(c1), box.add(c2);
+    edge_controls.r += c1.r + c2.r, edge_controls.z += c1.z + c2.z;
+  }
+  if (mesh.order == 3)
+    box.add({4.5 * at(9).r - vertices.r / 6 - edge_controls.r / 2, 4.5 * at(9).z - vertices.z / 6 - edge_controls.z / 2});
   return box;
 }
 

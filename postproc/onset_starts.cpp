@@ -4,6 +4,8 @@
 #include <cmath>
 #include <tuple>
 
+#include "mesh/lagrange.h"
+
 namespace hv::onset {
 namespace {
 
@@ -29,17 +31,21 @@ int extra_starts(double fraction_of_highest) {
   return std::clamp(extra, 1, 3);
 }
 
-// The position at sample coordinate u: on the P2 edge through the samples 2e, 2e+1, 2e+2 (the
-// quadratic Lagrange interpolant of the curved edge) or on the straight P1 edge.
+// The position at sample coordinate u: on the curved P2 or P3 edge through the samples p e ... p e + p
+// (p = order; the Lagrange interpolant of the curved edge) or on the straight P1 edge.
 Point position_at(const Mesh& mesh, const std::vector<SurfaceSample>& samples, double u) {
-  if (mesh.order == 2) {
-    const int first = std::min(2 * static_cast<int>(std::floor(u / 2)), static_cast<int>(samples.size()) - 3);
-    const double xi = (u - first) / 2;  // 0, 1/2, 1 at the three nodes of the edge
-    const double w0 = (1 - xi) * (1 - 2 * xi), w1 = 4 * xi * (1 - xi), w2 = xi * (2 * xi - 1);
-    const Point& p0 = samples[static_cast<size_t>(first)].at;
-    const Point& p1 = samples[static_cast<size_t>(first + 1)].at;
-    const Point& p2 = samples[static_cast<size_t>(first + 2)].at;
-    return {w0 * p0.r + w1 * p1.r + w2 * p2.r, w0 * p0.z + w1 * p1.z + w2 * p2.z};
+  if (mesh.order > 1) {
+    const int p = mesh.order;
+    const int first = std::min(p * static_cast<int>(std::floor(u / p)), static_cast<int>(samples.size()) - 1 - p);
+    double N[kMaxEdgeNodes], dN_dt[kMaxEdgeNodes];
+    edge_shape(p, (u - first) / p, N, dN_dt);  // t = 0, 1/p, ..., 1 at the nodes of the edge
+    Point x;
+    for (int j = 0; j <= p; ++j) {  // samples in chain order: first end, inner nodes, second end
+      const double w = j == 0 ? N[0] : j == p ? N[1] : N[1 + j];
+      const Point& node = samples[static_cast<size_t>(first + j)].at;
+      x.r += w * node.r, x.z += w * node.z;
+    }
+    return x;
   }
   const int i = std::min(static_cast<int>(std::floor(u)), static_cast<int>(samples.size()) - 2);
   const double t = u - i;

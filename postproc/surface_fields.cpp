@@ -55,12 +55,12 @@ std::vector<int> flux_outline(const Mesh& mesh, const MeshEdges& edges, const st
   return outline;
 }
 
-// The nodes of a chain of edges in order of travel: first vertex, then per edge its mid node (order
-// 2) and its second vertex.
+// The nodes of a chain of edges in order of travel: first vertex, then per edge its inner nodes
+// (order 2 or 3) and its second vertex. Consecutive vertices lie `order` places apart.
 std::vector<int> chain_nodes(const std::vector<BoundaryEdge>& chain) {
   std::vector<int> nodes = {chain.front().nodes[0]};
   for (const BoundaryEdge& edge : chain) {
-    if (edge.nodes[2] >= 0) nodes.push_back(edge.nodes[2]);
+    for (size_t i = 2; i < edge.nodes.size() && edge.nodes[i] >= 0; ++i) nodes.push_back(edge.nodes[i]);
     nodes.push_back(edge.nodes[1]);
   }
   return nodes;
@@ -83,7 +83,7 @@ NodeValues outline_residual(const Mesh& mesh, const Eigen::VectorXd& potential, 
     bool on_outline = false;
     for (int i = 0; i < n; ++i) on_outline = on_outline || residual.count(node[i]) > 0;
     if (!on_outline) continue;
-    double K[36];
+    double K[kMaxTriangleNodes * kMaxTriangleNodes];
     triangle_stiffness(mesh, t, K);
     for (int i = 0; i < n; ++i) {
       const auto slot = residual.find(node[i]);
@@ -110,13 +110,14 @@ void edge_point_in_triangle(const Mesh& mesh, int triangle, int from, int to, do
 // integral over one outline edge of eps_r du/dn N_i 2 pi r ds for its nodes, with du/dn taken
 // directly from the gradient in the region's triangle beside it. Used only to take a neighbouring
 // face's share out of the residual at a node where two faces meet.
-std::array<double, 3> direct_flux_moments(const Mesh& mesh, const Eigen::VectorXd& potential, const MeshEdge& edge, int region) {
+std::array<double, kMaxEdgeNodes> direct_flux_moments(const Mesh& mesh, const Eigen::VectorXd& potential,
+                                                      const MeshEdge& edge, int region) {
   const bool first_side = region_of(mesh, edge.triangles[0]) == region;
   const int triangle = first_side ? edge.triangles[0] : edge.triangles[1];
   const double eps_r = mesh.regions[static_cast<size_t>(region)].permittivity;
   const BoundaryEdge along = as_boundary_edge(edge);
-  std::array<double, 3> moments{0, 0, 0};
-  for (const EdgePoint& q : edge_rule()) {
+  std::array<double, kMaxEdgeNodes> moments{};
+  for (const EdgePoint& q : edge_rule(mesh.order)) {
     const EdgeSample s = sample_edge(mesh, along, q.t);
     double xi, eta;
     edge_point_in_triangle(mesh, triangle, edge.nodes[0], edge.nodes[1], q.t, &xi, &eta);
@@ -148,7 +149,9 @@ struct Outline {
 
 // A face that ends on the axis crosses it at a right angle, so the flux is even in the distance d
 // from the pole: q = q_pole + c d^2 near it. The one-sided hat at the pole would average over the
-// rising side only, so the pole takes the value of that parabola through the next two vertices.
+// rising side only, so the pole takes the value of that parabola through the next two vertices. The
+// d^4 term it leaves out errs by O(h^4) at the pole, below the error of the vertices themselves for
+// P1, P2 and P3 alike; only vertices enter, so it does not depend on the order.
 void fix_pole(const Mesh& mesh, const std::vector<int>& nodes, size_t step, std::vector<double>& flux, size_t end) {
   const Point pole = mesh.nodes[static_cast<size_t>(nodes[end])];
   if (pole.r != 0.0 || nodes.size() < 2 * step + 1) return;
@@ -165,10 +168,11 @@ void fix_pole(const Mesh& mesh, const std::vector<int>& nodes, size_t step, std:
 // eps_r E_n (V/m, normal into the region) at the nodes of one face, in chain order, from the
 // residual at its nodes and the lumped boundary mass (row sums of the mass matrix of N_i 2 pi r ds;
 // the consistent P2 mass matrix amplifies the residual's small node-to-node errors into oscillations).
-// For P2 the flux is taken in the P1 subspace, whose hat function at a vertex is N_vertex plus half of
-// each neighbouring mid node's N: its residual averages out the alternating vertex / mid-node errors of
-// P2 residuals (measured on a sphere: 0.35 % down to 0.03 %), and it stays defined on the axis, where
-// the integral of a P2 vertex's N_i 2 pi r vanishes. Mid nodes take the mean of their two vertices.
+// For P2 and P3 the flux is taken in the P1 subspace, whose hat function at a vertex is N_vertex plus,
+// for each neighbouring inner node j places away (of `order` per edge), (1 - j / order) times its N:
+// its residual averages out the alternating vertex / inner-node errors of P2 residuals (measured on a
+// sphere: 0.35 % down to 0.03 %), and it stays defined on the axis, where the integral of a P2 or P3
+// vertex's N_i 2 pi r vanishes. Inner nodes interpolate linearly between their two vertices.
 // Where the face meets another outline face (a corner, a triple junction, the open boundary), the
 // other face's share of the residual is taken out with its directly computed flux.
 std::vector<double> face_flux(const Mesh& mesh, const Eigen::VectorXd& potential, const MeshEdges& edges,
@@ -177,7 +181,7 @@ std::vector<double> face_flux(const Mesh& mesh, const Eigen::VectorXd& potential
   std::vector<int> own_edges;
   for (const BoundaryEdge& edge : face) {
     own_edges.push_back(edges.find(edge.nodes[0], edge.nodes[1]));
-    for (const EdgePoint& q : edge_rule()) {
+    for (const EdgePoint& q : edge_rule(mesh.order)) {
       const EdgeSample s = sample_edge(mesh, edge, q.t);
       for (int i = 0; i < s.n; ++i) weight[edge.nodes[static_cast<size_t>(i)]] += s.N[i] * 2 * kPi * s.at.r * s.ds_dt * q.weight;
     }
@@ -189,24 +193,31 @@ std::vector<double> face_flux(const Mesh& mesh, const Eigen::VectorXd& potential
     for (int e : outline.edges_at_node.at(node)) {
       if (std::find(own_edges.begin(), own_edges.end(), e) != own_edges.end()) continue;
       const MeshEdge& other = edges.all()[static_cast<size_t>(e)];
-      const std::array<double, 3> moments = direct_flux_moments(mesh, potential, other, outline.region);
-      for (size_t i = 0; i < 3; ++i)
+      const std::array<double, kMaxEdgeNodes> moments = direct_flux_moments(mesh, potential, other, outline.region);
+      for (size_t i = 0; i < moments.size(); ++i)
         if (other.nodes[i] == node) own_share -= moments[i];
     }
     share.push_back(own_share);
     mass.push_back(weight.at(node));
   }
-  const size_t step = mesh.order == 2 ? 2 : 1;  // from one vertex to the next in chain order
+  const size_t step = static_cast<size_t>(mesh.order);  // from one vertex to the next in chain order
   std::vector<double> flux(nodes.size(), 0.0);
   for (size_t k = 0; k < nodes.size(); k += step) {
     double residual = share[k], lumped = mass[k];
-    if (step == 2 && k > 0) residual += 0.5 * share[k - 1], lumped += 0.5 * mass[k - 1];
-    if (step == 2 && k + 1 < nodes.size()) residual += 0.5 * share[k + 1], lumped += 0.5 * mass[k + 1];
+    for (size_t j = 1; j < step; ++j) {
+      const double hat = 1.0 - static_cast<double>(j) / static_cast<double>(step);  // P1 hat of vertex k
+      if (k >= j) residual += hat * share[k - j], lumped += hat * mass[k - j];
+      if (k + j < nodes.size()) residual += hat * share[k + j], lumped += hat * mass[k + j];
+    }
     flux[k] = residual / lumped;
   }
   fix_pole(mesh, nodes, step, flux, 0);
   fix_pole(mesh, nodes, step, flux, nodes.size() - 1);
-  for (size_t k = 1; step == 2 && k < nodes.size(); k += 2) flux[k] = 0.5 * (flux[k - 1] + flux[k + 1]);
+  for (size_t k = 0; k + step < nodes.size(); k += step)
+    for (size_t j = 1; j < step; ++j) {
+      const double along = static_cast<double>(j) / static_cast<double>(step);
+      flux[k + j] = (1.0 - along) * flux[k] + along * flux[k + step];
+    }
   return flux;
 }
 
@@ -242,7 +253,7 @@ std::vector<double> run_flux(const Mesh& mesh, const Eigen::VectorXd& potential,
 // Arc length of an edge between parameters t0 and t1: integral of |dx/dt| dt.
 double arc_length(const Mesh& mesh, const BoundaryEdge& edge, double t0, double t1) {
   double length = 0;
-  for (const EdgePoint& q : edge_rule()) length += sample_edge(mesh, edge, t0 + (t1 - t0) * q.t).ds_dt * (t1 - t0) * q.weight;
+  for (const EdgePoint& q : edge_rule(mesh.order)) length += sample_edge(mesh, edge, t0 + (t1 - t0) * q.t).ds_dt * (t1 - t0) * q.weight;
   return length;
 }
 
@@ -263,9 +274,10 @@ std::vector<SurfaceSample> chain_samples(const Mesh& mesh, const std::vector<Bou
   double length = 0;
   for (const BoundaryEdge& edge : chain) {
     E_t.back() = s.size() == 1 ? E_t.back() : 0.5 * (E_t.back() + tangential_field(mesh, edge, potential, 0.0));
-    if (edge.nodes[2] >= 0) {
-      s.push_back(length + arc_length(mesh, edge, 0.0, 0.5));
-      E_t.push_back(tangential_field(mesh, edge, potential, 0.5));
+    for (int j = 1; j < mesh.order; ++j) {  // the inner nodes, at t = j / order
+      const double t = static_cast<double>(j) / mesh.order;
+      s.push_back(length + arc_length(mesh, edge, 0.0, t));
+      E_t.push_back(tangential_field(mesh, edge, potential, t));
     }
     length += arc_length(mesh, edge, 0.0, 1.0);
     s.push_back(length);

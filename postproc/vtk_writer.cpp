@@ -1,7 +1,10 @@
 // field.vtu, surfaces.vtp and fieldlines.vtp through VTK's XML writers. The r-z half plane is drawn as VTK's z = 0
 // plane: x = r, y = z. Writer settings and the node order of second-order triangles were checked
 // on this VTK version (shared/deps.md, section 6): our P2 triangle (vertices counter-clockwise, then
-// the mid nodes of edges 01, 12, 20) is VTK_QUADRATIC_TRIANGLE without permutation.
+// the mid nodes of edges 01, 12, 20) is VTK_QUADRATIC_TRIANGLE without permutation, and our P3
+// triangle (mesh.h) is VTK_LAGRANGE_TRIANGLE with 10 points without permutation (vtkLagrangeTriangle's
+// parametric coordinates of VTK 9.1 list the vertices, the edge points of edges 01, 12, 20 in each
+// edge's direction, then the centroid).
 #include <algorithm>
 #include <cmath>
 #include <string>
@@ -68,7 +71,7 @@ vtkNew<vtkPoints> mesh_points(const Mesh& mesh) {
 }
 
 void add_triangles(const Mesh& mesh, vtkUnstructuredGrid& grid) {
-  const int cell_type = mesh.order == 2 ? VTK_QUADRATIC_TRIANGLE : VTK_TRIANGLE;
+  const int cell_type = mesh.order == 3 ? VTK_LAGRANGE_TRIANGLE : mesh.order == 2 ? VTK_QUADRATIC_TRIANGLE : VTK_TRIANGLE;
   const int per_triangle = mesh.nodes_per_triangle();
   grid.AllocateExact(mesh.n_triangles(), static_cast<vtkIdType>(mesh.n_triangles()) * per_triangle);
   std::vector<vtkIdType> ids(static_cast<size_t>(per_triangle));

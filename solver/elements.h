@@ -1,13 +1,16 @@
-// Isoparametric Lagrange triangles (P1: 3 nodes, P2: 6 nodes on curved edges) and boundary edges
-// (2 or 3 nodes) of the r-z half plane, with the quadrature rules that integrate them.
-// Node order follows the mesh: triangle vertices counter-clockwise, then the mid nodes of edges
-// 01, 12, 20; an edge has its two end nodes, then its mid node. Reference triangle: (xi, eta) with
-// xi, eta >= 0, xi + eta <= 1; reference edge: t in [0, 1] from the first end node to the second.
-// Source: Zienkiewicz & Taylor, The Finite Element Method, vol. 1, isoparametric elements.
+// Isoparametric Lagrange triangles (P1: 3 nodes, P2: 6 and P3: 10 nodes on curved edges) and
+// boundary edges (2, 3 or 4 nodes) of the r-z half plane, with the quadrature rules that integrate them.
+// Node order follows the mesh (mesh.h): triangle vertices counter-clockwise, then the edge nodes of
+// edges 01, 12, 20, then (P3) the interior node; an edge has its two end nodes, then its inner nodes
+// from the first end to the second. Reference triangle: (xi, eta) with xi, eta >= 0, xi + eta <= 1;
+// reference edge: t in [0, 1] from the first end node to the second, inner nodes at t = j / order.
+// Source: Zienkiewicz & Taylor, The Finite Element Method, vol. 1, isoparametric elements. The shape
+// functions themselves are in mesh/lagrange.h, which the mesher shares.
 #pragma once
 
 #include <vector>
 
+#include "mesh/lagrange.h"  // triangle_shape, edge_shape, triangle_node_reference
 #include "mesh/mesh.h"
 
 namespace hv {
@@ -22,16 +25,15 @@ struct EdgePoint {
   double t = 0, weight = 0;  // weights sum to 1
 };
 
-// Dunavant's symmetric 7-point rule, exact for polynomials of degree 5 on the triangle
-// (Dunavant, Int. J. Numer. Methods Eng. 21, 1985, table for p = 5).
-const std::vector<TrianglePoint>& triangle_rule();
+// The triangle rule for elements of `order`, symmetric rules of Dunavant (Int. J. Numer. Methods
+// Eng. 21, 1985). The axisymmetric stiffness integrand grad N_i . grad N_j r is of degree 2 order - 1
+// on a straight element and rational on a curved one, so each rule keeps two degrees or more in hand:
+// orders 1 and 2 take the 7-point rule of degree 5, order 3 the 16-point rule of degree 8.
+const std::vector<TrianglePoint>& triangle_rule(int order);
 
-// Gauss-Legendre rule with 4 points on [0, 1], exact for degree 7.
-const std::vector<EdgePoint>& edge_rule();
-
-// The shape functions of a P1 or P2 triangle and their derivatives on the reference triangle.
-// `N`, `dN_dxi`, `dN_deta` each receive 3 (order 1) or 6 (order 2) values.
-void triangle_shape(int order, double xi, double eta, double* N, double* dN_dxi, double* dN_deta);
+// The Gauss-Legendre rule on [0, 1] for edges of `order`: 4 points (degree 7) for orders 1 and 2,
+// 5 points (degree 9) for order 3, whose edge mass integrand N_i N_j r is of degree 7.
+const std::vector<EdgePoint>& edge_rule(int order);
 
 // One triangle of the mesh, evaluated at a reference point: the position, the Jacobian determinant
 // of the isoparametric map (positive for a valid, counter-clockwise element), and the shape functions
@@ -39,34 +41,31 @@ void triangle_shape(int order, double xi, double eta, double* N, double* dN_dxi,
 struct TriangleSample {
   Point at;
   double detJ = 0.0;
-  int n = 0;  // number of nodes: 3 or 6
-  double N[6] = {0};
-  double dN_dr[6] = {0};
-  double dN_dz[6] = {0};
+  int n = 0;  // number of nodes: 3, 6 or 10
+  double N[kMaxTriangleNodes] = {0};
+  double dN_dr[kMaxTriangleNodes] = {0};
+  double dN_dz[kMaxTriangleNodes] = {0};
 };
 TriangleSample sample_triangle(const Mesh& mesh, int triangle, double xi, double eta);
 
 // One boundary edge of the mesh at parameter t in [0, 1]: position, |dx/dt| (the length element),
-// the unit tangent along the edge (from its first node to its second), and the 2 or 3 shape functions.
+// the unit tangent along the edge (from its first node to its second), and the 2, 3 or 4 shape functions.
 struct EdgeSample {
   Point at;
   double ds_dt = 0.0;
   Point tangent;
-  int n = 0;  // 2 or 3
-  double N[3] = {0};
-  double dN_dt[3] = {0};
+  int n = 0;  // 2, 3 or 4
+  double N[kMaxEdgeNodes] = {0};
+  double dN_dt[kMaxEdgeNodes] = {0};
 };
 EdgeSample sample_edge(const Mesh& mesh, const BoundaryEdge& edge, double t);
 
 // The element stiffness matrix of one triangle for the axisymmetric Laplace operator, without eps0:
 //   K_ij = integral over the triangle of eps_r grad(N_i) . grad(N_j) 2 pi r dr dz
-// with eps_r of the triangle's region. `K` receives n x n values, row-major (n = 3 or 6).
+// with eps_r of the triangle's region. `K` receives n x n values, row-major (n = 3, 6 or 10).
 void triangle_stiffness(const Mesh& mesh, int triangle, double* K);
 
 // The electric field E = -grad(u) in a triangle at a reference point, V/m, for nodal potentials u.
 Point triangle_field(const Mesh& mesh, int triangle, const double* u_all_nodes, double xi, double eta);
-
-// Reference coordinates of the triangle's nodes (vertices, then mid nodes), for nodal evaluations.
-void triangle_node_reference(int order, int local_node, double* xi, double* eta);
 
 }  // namespace hv

@@ -8,13 +8,12 @@ MeshEdges::MeshEdges(const Mesh& mesh) {
   edges_.reserve(static_cast<size_t>(mesh.n_triangles()) * 3 / 2 + 1);
   index_.reserve(edges_.capacity());
   for (int t = 0; t < mesh.n_triangles(); ++t) {
-    const int* node = mesh.triangle(t);
     for (int k = 0; k < 3; ++k) {
-      // Local edge k joins vertices k and k + 1; its mid node is local node 3 + k.
-      const int a = node[k], b = node[(k + 1) % 3];
-      const auto [slot, is_new] = index_.try_emplace(key(a, b), static_cast<int>(edges_.size()));
+      // Local edge k joins vertices k and k + 1, in that direction.
+      const std::array<int, kMaxEdgeNodes> side = mesh.triangle_side(t, k);
+      const auto [slot, is_new] = index_.try_emplace(key(side[0], side[1]), static_cast<int>(edges_.size()));
       if (is_new) {
-        edges_.push_back({{a, b, mesh.order == 2 ? node[3 + k] : -1}, {t, -1}});
+        edges_.push_back({side, {t, -1}});
       } else {
         edges_[static_cast<size_t>(slot->second)].triangles[1] = t;
       }

@@ -13,7 +13,7 @@
 namespace hv {
 
 struct MeshEdge {
-  std::array<int, 3> nodes{-1, -1, -1};  // end vertices, then the mid node (-1 for order 1)
+  std::array<int, kMaxEdgeNodes> nodes{-1, -1, -1, -1};  // as in BoundaryEdge: end vertices, then inner nodes
   std::array<int, 2> triangles{-1, -1};  // the triangles beside it; [1] is -1 on the mesh's outline
 };
 

@@ -100,7 +100,8 @@ inline Mesh grid_mesh(const GridSpec& spec, const std::vector<GridBoundary>& bou
         const int dj = path[k + 1][1] > path[k][1] ? 1 : path[k + 1][1] < path[k][1] ? -1 : 0;
         for (int i = path[k][0], j = path[k][1]; i != path[k + 1][0] || j != path[k + 1][1]; i += di, j += dj) {
           BoundaryEdge e;
-          e.nodes = {node(2 * i, 2 * j), node(2 * (i + di), 2 * (j + dj)), spec.order == 2 ? node(2 * i + di, 2 * j + dj) : -1};
+          e.nodes = {node(2 * i, 2 * j), node(2 * (i + di), 2 * (j + dj)), spec.order == 2 ? node(2 * i + di, 2 * j + dj) : -1,
+                     -1};
           contour.push_back(e);
         }
       }

@@ -148,7 +148,7 @@ INSTANTIATE_TEST_SUITE_P(
         BadInput{"missing_version", "hvstress: 1\n", "", "", "hvstress"},
         BadInput{"wrong_version", "hvstress: 1", "hvstress: 7", "", "case.yaml:1:"},
         BadInput{"zero_surface_size", "max_size: 100 mm}", "max_size: 100 mm, surface_size: 0}", "", "case.yaml:15:"},
-        BadInput{"bad_order", "max_size: 100 mm}", "max_size: 100 mm, order: 3}", "", "case.yaml:15:"},
+        BadInput{"bad_order", "max_size: 100 mm}", "max_size: 100 mm, order: 4}", "", "case.yaml:15:"},
         BadInput{"bad_growth", "max_size: 100 mm}", "max_size: 100 mm, growth: 0.8}", "", "case.yaml:15:"},
         BadInput{"touching_electrodes", "",
                  "hvstress: 1\nunits: {length: mm, voltage: kV}\nelectrodes:\n  hot: {potential: 50}\n"

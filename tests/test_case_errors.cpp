@@ -117,7 +117,7 @@ TEST(CaseErrors, ValueErrorsPointIntoTheValue) {
        kHead + "shapes:\n  - path:\n      start: [0, 0]\n      segments:\n        - line: [1, 0]\n"
                "          @arc: {to: [1, 1], radius: 1}\n    electrode: hv\n",
        "shapes[0].path.segments[0].arc", "either `line` or `arc`"},
-      {"mesh order 3", kHead + kBall + "mesh: {order: @3}\n", "mesh.order", "must be 1 or 2"},
+      {"mesh order 4", kHead + kBall + "mesh: {order: @4}\n", "mesh.order", "must be 1, 2 or 3"},
       {"growth of 1", kHead + kBall + "mesh: {growth: @1}\n", "mesh.growth", "greater than 1"},
       {"floating not a boolean", "hvstress: 1\nelectrodes:\n  hv: {floating: @yes}\n" + kBall, "electrodes.hv.floating",
        "expected true or false"},
