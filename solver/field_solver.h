@@ -8,9 +8,10 @@
 // (SIAM J. Appl. Math. 42, 1982): c = 1 for a monopole far field (potential ~ 1/R), c = 2 for the
 // dipole far field of charges above a grounded plane.
 //
-// Conductors are Dirichlet boundaries. One sparse Cholesky factorization serves one solve per
-// conductor at unit potential (others at zero); those unit solutions give the Maxwell capacitance
-// matrix, and floating conductors take the potentials at which their net charge is zero.
+// Conductors are Dirichlet boundaries. One solve per conductor at unit potential (others at zero),
+// all with one sparse Cholesky factorization (or, for large systems, one multigrid preconditioner;
+// solver/linear_system.h); those unit solutions give the Maxwell capacitance matrix, and floating
+// conductors take the potentials at which their net charge is zero.
 #pragma once
 
 #include <string>
@@ -20,6 +21,7 @@
 #include <Eigen/SparseCore>
 
 #include "mesh/mesh.h"
+#include "solver/linear_system.h"
 
 namespace hv {
 
@@ -34,19 +36,9 @@ struct FieldProblem {
   // Indexed like Boundary::conductor: the case's electrodes, then the ground plane if any.
   std::vector<Conductor> conductors;
   double far_field_c = 1.0;  // c of the open-boundary condition: 1 monopole, 2 dipole
-};
-
-// What the linear solve did; numerical failure is a status, and the caller decides what to say.
-struct SolveReport {
-  bool ok = false;
-  std::string message;     // why it failed, when it did
-  std::string method;      // "cholmod-supernodal" or "eigen-simplicial-ldlt"
-  int dofs = 0;            // free unknowns
-  long long factor_nonzeros = 0;
-  double relative_residual = 0.0;  // worst over the unit solves
-  double seconds_assemble = 0.0;
-  double seconds_factorize = 0.0;
-  double seconds_solve = 0.0;
+  LinearSolverKind linear_solver = LinearSolverKind::Automatic;
+  // Optional: keeps the symbolic analysis of the direct solve for the next solve of the same pattern.
+  FactorizationCache* factorization_cache = nullptr;
 };
 
 struct FieldSolution {
