@@ -89,13 +89,32 @@ struct DomainSpec {
   SourceLocation where;
 };
 
+// Adaptive refinement (tools/app/adaptive.h): Auto adapts when the case sets neither
+// mesh.surface_size nor mesh.max_size, so a case with only geometry gets a converged answer.
+struct AdaptSpec {
+  enum class Mode { Auto, On, Off };
+  Mode mode = Mode::Auto;
+  double tolerance = 1e-3;  // relative step-to-step change of every quantity of interest to stop at
+  int max_steps = 8;        // meshes solved at most
+};
+
 struct MeshSpec {
-  int order = 2;             // 1: straight 3-node triangles, 2: curved 6-node triangles
+  int order = 2;             // 1: straight 3-node triangles, 2: curved 6-node, 3: curved 10-node triangles
   double surface_size = 0;   // element size on electrode surfaces; 0 = from curvature
   double max_size = 0;       // largest element anywhere; 0 = default
   double growth = 1.3;       // size ratio between neighbouring elements, at most
   int max_elements = 5000000;  // the mesher refuses sizes whose estimated triangle count is larger
+  // Multiplies the default surface sizes (those from curvature or extent, not mesh.surface_size): the
+  // adaptive loop starts from a coarser mesh than a fixed run uses.
+  double default_size_factor = 1.0;
+  AdaptSpec adapt;
   SourceLocation where;
+
+  // Whether this mesh is refined adaptively: asked for, or by default when no size is given.
+  bool adaptive() const {
+    return adapt.mode == AdaptSpec::Mode::On ||
+           (adapt.mode == AdaptSpec::Mode::Auto && surface_size == 0 && max_size == 0);
+  }
 };
 
 struct GeometrySpec {

@@ -5,8 +5,9 @@
 //     1/8 of its bounding box's shorter side), growing linearly away from it, h + (growth - 1) d,
 //     up to max_size. Default max_size: a tenth of the domain's size (the open radius, or the
 //     box's longer side). Sizes whose estimated triangle count exceeds mesh.max_elements are
-//     refused before Gmsh starts;
-//  3. mesh with straight (order 1) or curved (order 2: mid nodes on the true curves) triangles;
+//     refused before Gmsh starts. An adaptive step (tools/app/adaptive.h) passes a SizeMap
+//     instead: the sizes then come from it through Gmsh's size callback, up to max_size;
+//  3. mesh with straight (order 1) or curved (order 2 or 3: edge nodes on the true curves) triangles;
 //  4. read the triangles back in metres, counter-clockwise, dropping zero-area ones (Gmsh 4.8 can
 //     leave some on straight boundaries), and derive the boundaries from the triangles themselves.
 #include "mesh/meshing.h"
@@ -17,18 +18,24 @@
 #include <chrono>
 #include <cmath>
 #include <iomanip>
+#include <optional>
 #include <sstream>
 #include <unordered_map>
 
 #include "mesh/boundaries.h"
 #include "mesh/gmsh_session.h"
+#include "mesh/lagrange.h"
 #include "mesh/occ_model.h"
 
 namespace hv {
 
 namespace {
 
-constexpr int kGmshTriangle3 = 2, kGmshTriangle6 = 9, kGmshLine2 = 1, kGmshLine3 = 8;
+// Gmsh element types (Gmsh reference manual, MSH file format) by order: triangles of 3, 6, 10 nodes
+// and lines of 2, 3, 4 nodes. Their node order is ours (mesh.h): vertices, then per edge (01, 12, 20;
+// a line's from its first end) its inner nodes in the edge's direction, then the interior node.
+constexpr int kGmshTriangle[4] = {0, 2, 9, 21};
+constexpr int kGmshLine[4] = {0, 1, 8, 26};
 // A triangle whose straight area is below this fraction of its longest edge squared has no area.
 constexpr double kDegenerateArea = 1e-10;
 // Distance-field samples: enough that neighbouring samples on a curve are at most h/2 apart.
@@ -76,21 +83,145 @@ void require_affordable_mesh(const PaintedModel& model, const MeshSpec& mesh) {
                    "memory and time for it");
 }
 
+// The size map of an adaptive step as a function of position, for Gmsh's size callback. A quadtree
+// over the old triangles' bounding boxes (at most kLeafTriangles per leaf: an adapted mesh is strongly
+// graded, so a uniform grid would put hundreds of tiny triangles in one bucket) finds the triangle
+// holding a point, and the vertex sizes are interpolated linearly in it. A point outside every
+// triangle (a concave curved boundary lies outside its straight chords) takes the value of the nearest
+// triangle of its quadrant, or of the smallest enclosing quadrant that has any, barycentric
+// coordinates clamped to the triangle.
+class SizeLookup {
+ public:
+  explicit SizeLookup(const SizeMap& map) : map_(map) {
+    Quad root;
+    root.lo = root.hi = map.vertices.empty() ? Point{} : map.vertices.front();
+    for (const Point& p : map.vertices) {
+      root.lo = {std::min(root.lo.r, p.r), std::min(root.lo.z, p.z)};
+      root.hi = {std::max(root.hi.r, p.r), std::max(root.hi.z, p.z)};
+    }
+    std::vector<int> all(map.triangles.size());
+    for (size_t t = 0; t < all.size(); ++t) all[t] = static_cast<int>(t);
+    quads_.push_back(root);
+    split(0, std::move(all), 0);
+  }
+
+  // The size at (r, z), metres.
+  double at(Point x) const {
+    std::vector<int> path{0};
+    while (quads_[static_cast<size_t>(path.back())].first_child >= 0) {
+      const Quad& q = quads_[static_cast<size_t>(path.back())];
+      const Point mid{(q.lo.r + q.hi.r) / 2, (q.lo.z + q.hi.z) / 2};
+      path.push_back(q.first_child + (x.r >= mid.r ? 1 : 0) + (x.z >= mid.z ? 2 : 0));
+    }
+    for (auto level = path.rbegin(); level != path.rend(); ++level) {
+      double best_inside = -INFINITY, value = 0.0;
+      for_each_triangle(*level, [&](int t) {
+        double weight[3];
+        const double inside = barycentric(t, x, weight);
+        if (inside > best_inside) best_inside = inside, value = interpolate(t, weight);
+      });
+      if (best_inside > -INFINITY) return value;
+    }
+    return 0.0;  // an empty map
+  }
+
+ private:
+  static constexpr size_t kLeafTriangles = 8;
+  static constexpr int kDepth = 24;
+  struct Quad {
+    Point lo, hi;
+    int first_child = -1;  // four children from here: (r low, z low), (r high, z low), (r low, z high), ...
+    std::vector<int> triangles;
+  };
+
+  void split(int index, std::vector<int> triangles, int depth) {
+    if (triangles.size() <= kLeafTriangles || depth == kDepth) {
+      quads_[static_cast<size_t>(index)].triangles = std::move(triangles);
+      return;
+    }
+    const Quad parent = quads_[static_cast<size_t>(index)];
+    const Point mid{(parent.lo.r + parent.hi.r) / 2, (parent.lo.z + parent.hi.z) / 2};
+    const int first = static_cast<int>(quads_.size());
+    quads_[static_cast<size_t>(index)].first_child = first;
+    std::vector<int> parts[4];
+    for (int c = 0; c < 4; ++c) {
+      Quad child;
+      child.lo = {c & 1 ? mid.r : parent.lo.r, c & 2 ? mid.z : parent.lo.z};
+      child.hi = {c & 1 ? parent.hi.r : mid.r, c & 2 ? parent.hi.z : mid.z};
+      for (int t : triangles) {
+        Point lo{INFINITY, INFINITY}, hi{-INFINITY, -INFINITY};
+        for (int v : map_.triangles[static_cast<size_t>(t)]) {
+          const Point& p = map_.vertices[static_cast<size_t>(v)];
+          lo = {std::min(lo.r, p.r), std::min(lo.z, p.z)}, hi = {std::max(hi.r, p.r), std::max(hi.z, p.z)};
+        }
+        if (lo.r <= child.hi.r && hi.r >= child.lo.r && lo.z <= child.hi.z && hi.z >= child.lo.z)
+          parts[c].push_back(t);
+      }
+      quads_.push_back(child);
+    }
+    for (int c = 0; c < 4; ++c) split(first + c, std::move(parts[c]), depth + 1);
+  }
+
+  template <class F>
+  void for_each_triangle(int index, F f) const {
+    const Quad& q = quads_[static_cast<size_t>(index)];
+    for (int t : q.triangles) f(t);
+    if (q.first_child >= 0)
+      for (int c = 0; c < 4; ++c) for_each_triangle(q.first_child + c, f);
+  }
+
+  // Barycentric coordinates of x in triangle t; returns the smallest (negative outside).
+  double barycentric(int t, Point x, double* weight) const {
+    const auto& tri = map_.triangles[static_cast<size_t>(t)];
+    const Point& a = map_.vertices[static_cast<size_t>(tri[0])];
+    const Point& b = map_.vertices[static_cast<size_t>(tri[1])];
+    const Point& c = map_.vertices[static_cast<size_t>(tri[2])];
+    const double area = (b.r - a.r) * (c.z - a.z) - (c.r - a.r) * (b.z - a.z);
+    weight[1] = ((x.r - a.r) * (c.z - a.z) - (c.r - a.r) * (x.z - a.z)) / area;
+    weight[2] = ((b.r - a.r) * (x.z - a.z) - (x.r - a.r) * (b.z - a.z)) / area;
+    weight[0] = 1 - weight[1] - weight[2];
+    return std::min({weight[0], weight[1], weight[2]});
+  }
+
+  double interpolate(int t, const double* weight) const {
+    double sum = 0.0, value = 0.0;
+    for (int k = 0; k < 3; ++k) {
+      const double w = std::max(0.0, weight[k]);
+      sum += w;
+      value += w * map_.size[static_cast<size_t>(map_.triangles[static_cast<size_t>(t)][static_cast<size_t>(k)])];
+    }
+    return value / sum;
+  }
+
+  const SizeMap& map_;
+  std::vector<Quad> quads_;
+};
+
 // Size fields in model units: per electrode Distance -> Threshold, the minimum of them as the
-// background mesh, and nothing taken from points, curvature or boundaries.
-void set_element_sizes(const PaintedModel& model, const MeshSpec& mesh) {
+// background mesh, and nothing taken from points, curvature or boundaries. With an adaptive size
+// map, Gmsh's size callback takes the map instead of the fields (bounded by the largest size).
+void set_element_sizes(const PaintedModel& model, const MeshSpec& mesh, const SizeLookup* adapted) {
   namespace field = gmsh::model::mesh::field;
   const double scale = model.length_scale, largest = to_model(model.max_size, scale);
   gmsh::option::setNumber("Mesh.MeshSizeExtendFromBoundary", 0);
   gmsh::option::setNumber("Mesh.MeshSizeFromPoints", 0);
   gmsh::option::setNumber("Mesh.MeshSizeFromCurvature", 0);
   gmsh::option::setNumber("Mesh.MeshSizeMax", largest);
+  if (adapted) {
+    // Gmsh 4.8 hands the callback model coordinates. The size is rounded like every other length
+    // (to_model), so that a scaled copy of a case gets the same mesh.
+    gmsh::model::mesh::setSizeCallback([adapted, scale](int, int, double x, double y, double) {
+      return to_model(adapted->at({x * scale, y * scale}), scale);
+    });
+    return;
+  }
 
   std::vector<double> thresholds;
   for (size_t e = 0; e < model.electrode_curves.size(); ++e) {
     const std::vector<int>& curves = model.electrode_curves[e];
     if (curves.empty()) continue;
-    const double h = to_model(std::min(model.electrode_size[e], model.max_size), scale);
+    const double factor = mesh.surface_size > 0 ? 1.0 : mesh.default_size_factor;
+    const double h = to_model(std::min(factor * model.electrode_size[e], model.max_size), scale);
     double longest = 0.0;
     for (int c : curves) longest = std::max(longest, curve_length(c));
     const int distance = field::add("Distance");
@@ -111,20 +242,12 @@ void set_element_sizes(const PaintedModel& model, const MeshSpec& mesh) {
   field::setAsBackgroundMesh(smallest);
 }
 
-// Determinant of the Jacobian of the P1/P2 map at reference point (xi, eta); nodes as in Mesh.
+// Determinant of the Jacobian of the isoparametric map at reference point (xi, eta); nodes as in Mesh.
 double jacobian(const Point* x, int order, double xi, double eta) {
-  double dxi[6], deta[6];
-  const double l0 = 1 - xi - eta;
-  if (order == 1) {
-    const double a[3] = {-1, 1, 0}, b[3] = {-1, 0, 1};
-    std::copy(a, a + 3, dxi), std::copy(b, b + 3, deta);
-  } else {
-    const double a[6] = {1 - 4 * l0, 4 * xi - 1, 0, 4 * (l0 - xi), 4 * eta, -4 * eta};
-    const double b[6] = {1 - 4 * l0, 0, 4 * eta - 1, -4 * xi, 4 * xi, 4 * (l0 - eta)};
-    std::copy(a, a + 6, dxi), std::copy(b, b + 6, deta);
-  }
+  double N[kMaxTriangleNodes], dxi[kMaxTriangleNodes], deta[kMaxTriangleNodes];
+  triangle_shape(order, xi, eta, N, dxi, deta);
   double r_xi = 0, r_eta = 0, z_xi = 0, z_eta = 0;
-  for (int i = 0; i < (order == 1 ? 3 : 6); ++i) {
+  for (int i = 0; i < (order + 1) * (order + 2) / 2; ++i) {
     r_xi += dxi[i] * x[i].r, z_xi += dxi[i] * x[i].z;
     r_eta += deta[i] * x[i].r, z_eta += deta[i] * x[i].z;
   }
@@ -135,19 +258,34 @@ double distance(Point a, Point b) { return std::hypot(a.r - b.r, a.z - b.z); }
 
 enum class TriangleCheck { Valid, ZeroArea, Inverted };
 
-// Orients a triangle counter-clockwise (swapping vertices 1 and 2 and, for P2, the mid nodes of
-// edges 01 and 20), then checks its Jacobian at the nodes and the centroid.
+// The local node order of a triangle whose vertices 1 and 2 trade places: the cycle (0, 1, 2) becomes
+// (0, 2, 1), so sides 01 and 20 trade places and every side runs backwards (its inner nodes reversed).
+const int* reversed_nodes(int order) {
+  static const int reversed[4][kMaxTriangleNodes] = {
+      {}, {0, 2, 1}, {0, 2, 1, 5, 4, 3}, {0, 2, 1, 8, 7, 6, 5, 4, 3, 9}};
+  return reversed[order];
+}
+
+// Orients a triangle counter-clockwise (reversing its node order when its vertices run clockwise),
+// then checks its Jacobian at its nodes and the centroid (with the P2 nodes for a P1 triangle).
 TriangleCheck orient_and_check(int order, std::vector<size_t>& tags, std::vector<Point>& x) {
   const double longest = std::max({distance(x[0], x[1]), distance(x[1], x[2]), distance(x[2], x[0])});
   const double area2 = (x[1].r - x[0].r) * (x[2].z - x[0].z) - (x[2].r - x[0].r) * (x[1].z - x[0].z);
   if (std::abs(area2) <= 2 * kDegenerateArea * longest * longest) return TriangleCheck::ZeroArea;
   if (area2 < 0) {
-    std::swap(tags[1], tags[2]), std::swap(x[1], x[2]);
-    if (order == 2) std::swap(tags[3], tags[5]), std::swap(x[3], x[5]);
+    const std::vector<size_t> old_tags = tags;
+    const std::vector<Point> old_x = x;
+    const int* reversed = reversed_nodes(order);
+    for (size_t i = 0; i < tags.size(); ++i)
+      tags[i] = old_tags[static_cast<size_t>(reversed[i])], x[i] = old_x[static_cast<size_t>(reversed[i])];
   }
-  static const double reference[7][2] = {{0, 0}, {1, 0}, {0, 1}, {0.5, 0}, {0.5, 0.5}, {0, 0.5}, {1. / 3, 1. / 3}};
-  for (const auto& p : reference)
-    if (jacobian(x.data(), order, p[0], p[1]) <= 0) return TriangleCheck::Inverted;
+  const int checked = std::max(order, 2);
+  for (int i = 0; i < (checked + 1) * (checked + 2) / 2; ++i) {
+    double xi, eta;
+    triangle_node_reference(checked, i, &xi, &eta);
+    if (jacobian(x.data(), order, xi, eta) <= 0) return TriangleCheck::Inverted;
+  }
+  if (jacobian(x.data(), order, 1. / 3, 1. / 3) <= 0) return TriangleCheck::Inverted;
   return TriangleCheck::Valid;
 }
 
@@ -174,17 +312,21 @@ int read_triangles(const PaintedModel& model, int order, Mesh& mesh, ElectrodeEd
   };
 
   mesh.order = order;
-  const size_t per = order == 1 ? 3 : 6;
+  const size_t per = static_cast<size_t>(mesh.nodes_per_triangle());
   int dropped = 0;
   for (const auto& [surface, region] : model.surfaces) {
     std::vector<size_t> element_tags, element_nodes;
-    gmsh::model::mesh::getElementsByType(order == 1 ? kGmshTriangle3 : kGmshTriangle6, element_tags, element_nodes,
-                                         surface);
+    gmsh::model::mesh::getElementsByType(kGmshTriangle[order], element_tags, element_nodes, surface);
     for (size_t t = 0; t < element_tags.size(); ++t) {
       std::vector<size_t> tags(element_nodes.begin() + static_cast<long>(t * per),
                                element_nodes.begin() + static_cast<long>((t + 1) * per));
       std::vector<Point> x;
       for (size_t tag : tags) x.push_back(position.at(tag));
+      // Gmsh 4.8 puts the interior node of a curved cubic triangle at (sum of edge nodes - sum of
+      // vertices) / 3 (measured), a third of the edges' bulge beyond the blended position; that is
+      // not exact even for quadratic maps and costs the element an order of accuracy. The node
+      // belongs to this triangle alone, so it moves without touching a neighbour.
+      if (order == 3) x[9] = position[tags[9]] = blended_interior_node(x.data());
       const TriangleCheck check = orient_and_check(order, tags, x);
       if (check == TriangleCheck::ZeroArea) {
         ++dropped;
@@ -201,8 +343,8 @@ int read_triangles(const PaintedModel& model, int order, Mesh& mesh, ElectrodeEd
   for (size_t e = 0; e < model.electrode_curves.size(); ++e) {
     for (int curve : model.electrode_curves[e]) {
       std::vector<size_t> element_tags, element_nodes;
-      gmsh::model::mesh::getElementsByType(order == 1 ? kGmshLine2 : kGmshLine3, element_tags, element_nodes, curve);
-      const size_t per_edge = order == 1 ? 2 : 3;
+      gmsh::model::mesh::getElementsByType(kGmshLine[order], element_tags, element_nodes, curve);
+      const size_t per_edge = static_cast<size_t>(order + 1);
       for (size_t k = 0; k < element_tags.size(); ++k) {
         const auto a = index_of.find(element_nodes[k * per_edge]), b = index_of.find(element_nodes[k * per_edge + 1]);
         if (a == index_of.end() || b == index_of.end()) continue;
@@ -243,7 +385,7 @@ std::vector<std::string> check_geometry(const GeometrySpec& spec) {
   });
 }
 
-MeshResult build_mesh(const GeometrySpec& spec) {
+MeshResult build_mesh(const GeometrySpec& spec, const SizeMap* sizes) {
   const auto start = std::chrono::steady_clock::now();
   GmshSession session;
   MeshResult result;
@@ -251,7 +393,8 @@ MeshResult build_mesh(const GeometrySpec& spec) {
   const PaintedModel model = run_gmsh("building the geometry", [&] { return build_painted_model(spec); });
   run_gmsh("meshing", [&] {
     require_affordable_mesh(model, spec.mesh);
-    set_element_sizes(model, spec.mesh);
+    const std::optional<SizeLookup> adapted = sizes ? std::optional<SizeLookup>(*sizes) : std::nullopt;
+    set_element_sizes(model, spec.mesh, adapted ? &*adapted : nullptr);
     gmsh::model::mesh::generate(2);
     gmsh::model::mesh::setOrder(spec.mesh.order);
     result.stats.dropped_degenerate = read_triangles(model, spec.mesh.order, result.mesh, electrode_edges);

@@ -2,6 +2,7 @@
 // includes gmsh.h lives behind this header. Gmsh is not thread-safe: call these from one thread.
 #pragma once
 
+#include <array>
 #include <string>
 #include <vector>
 
@@ -23,8 +24,19 @@ struct MeshResult {
 // InputError naming the shape (or the key). Returns warnings. Writes nothing.
 std::vector<std::string> check_geometry(const GeometrySpec& spec);
 
-// check_geometry, then meshes with curved second-order (or first-order) triangles and reads the
-// mesh back: regions with their permittivity, boundaries classified and ordered into contours.
-MeshResult build_mesh(const GeometrySpec& spec);
+// Element sizes to mesh with in place of the size fields of the mesh spec: a target edge length at
+// each vertex of an earlier mesh's (straight) triangles, interpolated linearly inside them, and taken
+// from the nearest triangle outside them (where a curved boundary bulges past a straight side). The
+// adaptive loop builds it from error indicators (tools/app/adaptive.h). Metres.
+struct SizeMap {
+  std::vector<Point> vertices;
+  std::vector<std::array<int, 3>> triangles;  // indices into vertices
+  std::vector<double> size;                   // per vertex
+};
+
+// check_geometry, then meshes with curved (or first-order) triangles and reads the mesh back:
+// regions with their permittivity, boundaries classified and ordered into contours. With `sizes`,
+// the elements follow that map (bounded by the largest size) instead of the surface-size fields.
+MeshResult build_mesh(const GeometrySpec& spec, const SizeMap* sizes = nullptr);
 
 }  // namespace hv

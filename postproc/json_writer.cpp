@@ -208,6 +208,48 @@ std::string onset_object(const OnsetResult& onset, int depth) {
   return json_object(members, depth);
 }
 
+// ---- accuracy ----
+
+// One value per electrode, keyed by name.
+std::string per_electrode(const RunResults& results, const std::vector<double>& values, int depth) {
+  Members members;
+  for (size_t e = 0; e < results.electrodes.size() && e < values.size(); ++e)
+    members.emplace_back(results.electrodes[e].name, json_number(values[e]));
+  return json_object(members, depth);
+}
+
+std::string accuracy_steps(const RunResults& results, int depth) {
+  std::vector<std::string> items;
+  for (const AccuracyStep& step : results.accuracy.steps)
+    items.push_back(json_object({{"order", json_integer(step.order)},
+                                 {"triangles", json_integer(step.triangles)},
+                                 {"dofs", json_integer(step.dofs)},
+                                 {"energy_error", json_number(step.energy_error)},
+                                 {"max_field_V_per_m", per_electrode(results, step.max_field_V_per_m, depth + 2)},
+                                 {"inception_voltage_V", json_number(step.inception_V)},
+                                 {"seconds", json_number(step.seconds)}},
+                                depth + 1));
+  return json_block_array(items, depth);
+}
+
+// Estimated relative errors (null where there is no estimate) and, for an adaptive run, its record.
+std::string accuracy_object(const RunResults& results, int depth) {
+  const Accuracy& accuracy = results.accuracy;
+  Members members{{"adaptive", json_bool(accuracy.adaptive)},
+                  {"converged", json_bool(accuracy.converged)},
+                  {"tolerance", json_number(accuracy.tolerance)},
+                  {"steps", json_integer(static_cast<long long>(accuracy.steps.size()))},
+                  {"max_steps", json_integer(accuracy.max_steps)},
+                  {"energy_error", json_number(accuracy.energy_error)},
+                  {"max_field_error", per_electrode(results, accuracy.max_field_error, depth + 1)},
+                  {"inception_voltage_error", json_number(accuracy.inception_error)}};
+  if (accuracy.adaptive) {
+    members.emplace_back("stop_reason", json_string(accuracy.stop_reason));
+    members.emplace_back("history", accuracy_steps(results, depth + 1));
+  }
+  return json_object(members, depth);
+}
+
 }  // namespace
 
 std::string summary_json(const RunResults& results) {
@@ -236,6 +278,7 @@ std::string summary_json(const RunResults& results) {
   if (results.has_ground_plane)
     members.emplace_back("ground_plane_charge_C", json_number(results.ground_plane_charge_C));
   if (results.onset.evaluated) members.emplace_back("onset", onset_object(results.onset, 1));
+  members.emplace_back("accuracy", accuracy_object(results, 1));
   members.emplace_back("timings_s", timings_object(results.timings, 1));
   members.emplace_back("warnings", json_string_array(results.warnings));
   return json_object(members, 0) + "\n";

@@ -228,8 +228,9 @@ std::string mesh_section(const RunResults& results) {
   const MeshStats& stats = results.mesh_stats;
   std::string out = "## Mesh\n\n";
   if (results.mesh)
-    out += results.mesh->order == 2 ? "- curved second-order triangles (6 nodes)\n"
-                                    : "- straight first-order triangles (3 nodes)\n";
+    out += results.mesh->order == 3   ? "- curved third-order triangles (10 nodes)\n"
+           : results.mesh->order == 2 ? "- curved second-order triangles (6 nodes)\n"
+                                      : "- straight first-order triangles (3 nodes)\n";
   out += "- " + std::to_string(stats.nodes) + " nodes, " + std::to_string(stats.triangles) +
          " triangles, " + std::to_string(stats.boundary_edges) + " boundary edges\n";
   out += "- element edges from " + mm(stats.min_size) + " mm to " + mm(stats.max_size) + " mm\n";
@@ -245,6 +246,57 @@ std::string solver_section(const RunResults& results) {
   out += "- nonzeros of the factor: " + std::to_string(report.factor_nonzeros) + "\n";
   out += "- worst relative residual: " + significant(report.relative_residual, 3) + "\n\n";
   return out;
+}
+
+// A relative error as a percentage with two significant digits; "-" where there is none, "unbounded"
+// where a result was not comparable (an inception voltage found on one mesh only).
+std::string percent(double fraction) {
+  if (std::isnan(fraction)) return "-";
+  return std::isfinite(fraction) ? significant(100 * fraction, 2) + " %" : "unbounded";
+}
+
+std::string accuracy_history(const RunResults& results) {
+  std::string out = table_header({"mesh", "order", "triangles", "unknowns", "energy-norm error", "highest field (kV/mm)",
+                                  "inception (kV)", "seconds"});
+  for (size_t k = 0; k < results.accuracy.steps.size(); ++k) {
+    const AccuracyStep& step = results.accuracy.steps[k];
+    const double highest = step.max_field_V_per_m.empty()
+                               ? NAN
+                               : *std::max_element(step.max_field_V_per_m.begin(), step.max_field_V_per_m.end());
+    out += table_row({std::to_string(k + 1), std::to_string(step.order), std::to_string(step.triangles),
+                      std::to_string(step.dofs), percent(step.energy_error), kV_per_mm(highest),
+                      std::isnan(step.inception_V) ? "-" : inception_kV(step.inception_V),
+                      significant(step.seconds, 3)});
+  }
+  return out;
+}
+
+// How far to trust the figures: the adaptive loop's verdict and estimated errors, or for a fixed mesh
+// the energy-norm estimate alone.
+std::string accuracy_section(const RunResults& results) {
+  const Accuracy& accuracy = results.accuracy;
+  std::string out = "## Accuracy\n\n";
+  if (!accuracy.adaptive) {
+    return out + "Fixed mesh (the case gives its sizes): the maximum fields were computed on one mesh only, so no "
+                 "error is estimated for them. The Zienkiewicz-Zhu estimate of the relative error in the energy "
+                 "norm is " + percent(accuracy.energy_error) + ". Leave the sizes out, or set "
+                 "`mesh.adapt: {enabled: true}`, for estimated errors of every result.\n\n";
+  }
+  out += accuracy.converged
+             ? "Adaptive refinement (Zienkiewicz-Zhu error estimate) reached the tolerance of " +
+                   percent(accuracy.tolerance) + " after " + std::to_string(accuracy.steps.size()) + " meshes. "
+             : "**Not converged:** adaptive refinement stopped after " + std::to_string(accuracy.steps.size()) +
+                   " meshes (" + one_line(accuracy.stop_reason) + ") before every result changed by less than " +
+                   percent(accuracy.tolerance) + ". ";
+  out += "The estimated error of a result is its change from the mesh before the last.\n\n";
+  out += table_header({"result", "value", "estimated error"});
+  for (size_t e = 0; e < results.electrodes.size() && e < accuracy.max_field_error.size(); ++e)
+    out += table_row({"maximum field on " + cell(results.electrodes[e].name) + " (kV/mm)",
+                      kV_per_mm(results.electrodes[e].max_field_V_per_m), percent(accuracy.max_field_error[e])});
+  if (results.onset.evaluated)
+    out += table_row({"inception voltage (kV)", inception_kV(results.onset.inception_V), percent(accuracy.inception_error)});
+  out += table_row({"energy norm (whole field)", "-", percent(accuracy.energy_error)});
+  return out + "\n" + accuracy_history(results) + "\n";
 }
 
 std::string timings_section(const Timings& timings) {
@@ -294,7 +346,7 @@ std::string case_echo(const RunResults& results) {
 std::string report_markdown(const RunResults& results) {
   return title_and_caution(results) + headline(results) + electrodes_table(results) +
          capacitance_section(results) + (results.onset.evaluated ? onset_section(results.onset) : "") +
-         mesh_section(results) + solver_section(results) +
+         accuracy_section(results) + mesh_section(results) + solver_section(results) +
          timings_section(results.timings) + warnings_section(results) + parameters_section(results) +
          case_echo(results);
 }

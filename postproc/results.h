@@ -53,6 +53,31 @@ struct Timings {
   double mesh = 0, assemble = 0, solve = 0, post = 0, total = 0;
 };
 
+// One mesh of an adaptive run, with the quantities of interest it gave.
+struct AccuracyStep {
+  int order = 2;
+  int triangles = 0;
+  int dofs = 0;
+  double energy_error = 0.0;            // relative Zienkiewicz-Zhu estimate in the energy norm
+  std::vector<double> max_field_V_per_m;  // per electrode, in case order
+  double inception_V = NAN;             // lowest inception voltage (NaN without an onset evaluation)
+  double seconds = 0.0;                 // mesh, solve, fields, onset and estimate of this step
+};
+
+// How accurate the results are: the adaptive loop's record (tools/app/adaptive.h), or for a fixed
+// mesh only the energy-norm estimate. Estimated errors are relative; NaN where there is none.
+struct Accuracy {
+  bool adaptive = false;
+  bool converged = false;                // every quantity changed by less than the tolerance
+  double tolerance = NAN;
+  int max_steps = 0;
+  double energy_error = NAN;             // relative Zienkiewicz-Zhu estimate on the final mesh
+  std::vector<double> max_field_error;   // per electrode: estimated relative error of its maximum field
+  double inception_error = NAN;          // of the lowest inception voltage
+  std::vector<AccuracyStep> steps;       // adaptive: every mesh solved, in order
+  std::string stop_reason;               // adaptive: why the loop ended, in words
+};
+
 struct RunResults {
   std::string title;
   std::string case_file;
@@ -75,7 +100,8 @@ struct RunResults {
   std::vector<SurfaceField> surfaces;
   OnsetResult onset;                           // evaluated when the case has an `onset` section
   std::vector<std::string> warnings;
-  Timings timings;
+  Timings timings;                             // the final mesh's stages; total over all steps
+  Accuracy accuracy;
   std::string version;
 };
 

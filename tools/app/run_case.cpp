@@ -7,6 +7,7 @@
 
 #include "postproc/surface_fields.h"
 #include "postproc/writers.h"
+#include "tools/app/adaptive.h"
 #include "tools/app/finite_results.h"
 
 namespace hv {
@@ -69,35 +70,17 @@ double driving_voltage(const Case& the_case) {
   return largest;
 }
 
-}  // namespace
-
-FieldProblem field_problem(const Case& the_case, const Mesh& mesh) {
-  FieldProblem problem;
-  problem.mesh = &mesh;
-  for (const ElectrodeSpec& electrode : the_case.geometry.electrodes) {
-    problem.conductors.push_back({electrode.name, electrode.floating, electrode.potential_V});
-  }
-  if (the_case.geometry.ground_plane.present) {
-    problem.conductors.push_back({"ground_plane", false, 0.0});
-    problem.far_field_c = 2.0;
-  }
-  return problem;
-}
-
-std::unique_ptr<RunOutcome> compute_case(const Case& the_case, const StepListener& on_step) {
+// Meshes `geometry` (from its sizes, or following `sizes`) and computes the field, the surface fields
+// and, with onset settings, the onset on that mesh. Timings are this mesh's; total is filled later.
+std::unique_ptr<RunOutcome> solve_one_mesh(const Case& the_case, const GeometrySpec& geometry, const SizeMap* sizes,
+                                           const std::optional<GasModel>& gas,
+                                           const std::optional<OnsetSettings>& onset_settings,
+                                           const StepListener& on_step) {
   auto outcome = std::make_unique<RunOutcome>();
   RunResults& results = outcome->results;
-  fill_case_echo(the_case, results);
   const auto start = std::chrono::steady_clock::now();
-  // The gas first: a bad table or setting is bad input, and should cost no meshing.
-  std::optional<OnsetSettings> onset_settings;
-  if (the_case.onset.present) {
-    outcome->gas = GasModel::from_spec(the_case.gas);
-    onset_settings = resolve_onset_settings(the_case.onset, *outcome->gas, driving_voltage(the_case));
-  }
-
   announce(on_step, "meshing");
-  outcome->meshed = build_mesh(the_case.geometry);
+  outcome->meshed = build_mesh(geometry, sizes);
   const Mesh& mesh = outcome->meshed.mesh;
   results.mesh = &mesh;
   results.mesh_stats = outcome->meshed.stats;
@@ -135,9 +118,52 @@ std::unique_ptr<RunOutcome> compute_case(const Case& the_case, const StepListene
 
   if (onset_settings) {
     announce(on_step, "evaluating discharge onset");
-    results.onset = evaluate_onset(mesh, solution.potential, results.surfaces, *outcome->gas, *onset_settings);
+    results.onset = evaluate_onset(mesh, solution.potential, results.surfaces, *gas, *onset_settings);
   }
-  results.timings.total = seconds_since(start);
+  return outcome;
+}
+
+}  // namespace
+
+FieldProblem field_problem(const Case& the_case, const Mesh& mesh) {
+  FieldProblem problem;
+  problem.mesh = &mesh;
+  for (const ElectrodeSpec& electrode : the_case.geometry.electrodes) {
+    problem.conductors.push_back({electrode.name, electrode.floating, electrode.potential_V});
+  }
+  if (the_case.geometry.ground_plane.present) {
+    problem.conductors.push_back({"ground_plane", false, 0.0});
+    problem.far_field_c = 2.0;
+  }
+  return problem;
+}
+
+std::unique_ptr<RunOutcome> compute_case(const Case& the_case, const StepListener& on_step) {
+  const auto start = std::chrono::steady_clock::now();
+  // The gas first: a bad table or setting is bad input, and should cost no meshing.
+  std::optional<GasModel> gas;
+  std::optional<OnsetSettings> onset_settings;
+  if (the_case.onset.present) {
+    gas = GasModel::from_spec(the_case.gas);
+    onset_settings = resolve_onset_settings(the_case.onset, *gas, driving_voltage(the_case));
+  }
+  auto solve_step = [&](const GeometrySpec& geometry, const SizeMap* sizes) {
+    return solve_one_mesh(the_case, geometry, sizes, gas, onset_settings, on_step);
+  };
+
+  std::unique_ptr<RunOutcome> outcome;
+  if (the_case.geometry.mesh.adaptive()) {
+    outcome = run_adaptive(the_case, solve_step, on_step);
+  } else {
+    outcome = solve_step(the_case.geometry, nullptr);
+    // A fixed mesh still gets the global estimate; its maxima have no second mesh to compare with.
+    Accuracy& accuracy = outcome->results.accuracy;
+    accuracy.energy_error = zz_error_estimate(outcome->meshed.mesh, outcome->solution.potential).relative();
+    accuracy.max_field_error.assign(outcome->results.electrodes.size(), NAN);
+  }
+  outcome->gas = std::move(gas);
+  fill_case_echo(the_case, outcome->results);
+  outcome->results.timings.total = seconds_since(start);
   return outcome;
 }
 

@@ -84,7 +84,7 @@ const std::vector<CaseKey>& case_keys() {
        "as top; not allowed with a ground plane, which is the bottom"},
 
       {"mesh", T::Section, K::Number, "automatic", "mesh controls"},
-      {"mesh.order", T::Integer, K::Number, "2", "1: straight 3-node triangles, 2: curved 6-node triangles"},
+      {"mesh.order", T::Integer, K::Number, "2", "1: straight 3-node triangles, 2: curved 6-node triangles, 3: curved 10-node triangles"},
       {"mesh.surface_size", T::Value, K::Length, "60 per turn of curvature",
        "element size on electrode surfaces (default: 60 elements per full turn of the smallest radius, or 1/8 of the shorter side of a straight-edged electrode)"},
       {"mesh.max_size", T::Value, K::Length, "domain size / 10",
@@ -92,6 +92,13 @@ const std::vector<CaseKey>& case_keys() {
       {"mesh.growth", T::Value, K::Number, "1.3", "largest size ratio of neighbouring elements, above 1"},
       {"mesh.max_elements", T::Integer, K::Number, "5000000",
        "refuse to mesh when the sizes call for more triangles than this (an estimate, checked before meshing)"},
+      {"mesh.adapt", T::Section, K::Number, "on unless a size is given",
+       "adaptive refinement from an error estimate until the results stop changing"},
+      {"mesh.adapt.enabled", T::Boolean, K::Number, "true unless surface_size or max_size is given",
+       "refine adaptively (true) or mesh once with the given sizes (false)"},
+      {"mesh.adapt.tolerance", T::Value, K::Number, "0.001",
+       "stop when each electrode's maximum field and the inception voltage change by less than this fraction"},
+      {"mesh.adapt.max_steps", T::Integer, K::Number, "8", "most meshes solved, at least 2"},
 
       {"gas", T::Section, K::Number, "air", "the insulating gas around the shapes"},
       {"gas.name", T::Choice, K::Number, "air", "the gas; `table` reads its coefficients from a file",

@@ -720,9 +720,10 @@ class CaseReader {
     const Fields fields = section(*entry);
     if (const auto order = fields.get("order")) {
       mesh.order = integer(*order);
-      if (mesh.order != 1 && mesh.order != 2)
-        fail(*order, "the element order must be 1 or 2, got " + std::to_string(mesh.order),
-             "Use 2 (curved second-order triangles) unless you compare with first order");
+      if (mesh.order < 1 || mesh.order > 3)
+        fail(*order, "the element order must be 1, 2 or 3, got " + std::to_string(mesh.order),
+             "Use 2 (curved second-order triangles), or 3 (curved cubic triangles) for the highest accuracy per "
+             "unknown on smooth fields");
     }
     if (const auto size = fields.get("surface_size")) mesh.surface_size = positive(*size);
     if (const auto size = fields.get("max_size")) mesh.max_size = positive(*size);
@@ -740,7 +741,28 @@ class CaseReader {
     }
     if (mesh.surface_size > 0.0 && mesh.max_size > 0.0 && mesh.surface_size > mesh.max_size)
       fail(*fields.get("surface_size"), "surface_size is larger than max_size", "Make surface_size at most max_size");
+    if (const auto adapt = fields.get("adapt")) mesh.adapt = read_adapt(*adapt);
     return mesh;
+  }
+
+  AdaptSpec read_adapt(const Entry& entry) const {
+    AdaptSpec adapt;
+    const Fields fields = section(entry);
+    if (const auto enabled = fields.get("enabled"))
+      adapt.mode = boolean(*enabled) ? AdaptSpec::Mode::On : AdaptSpec::Mode::Off;
+    if (const auto tolerance = fields.get("tolerance")) {
+      adapt.tolerance = value(*tolerance);
+      if (!(adapt.tolerance >= 1e-7 && adapt.tolerance <= 0.1))
+        fail(*tolerance, "the tolerance must lie between 1e-7 and 0.1, got `" + tolerance->node.Scalar() + "`",
+             "It is a relative change: 0.001 stops at 0.1 %");
+    }
+    if (const auto steps = fields.get("max_steps")) {
+      adapt.max_steps = integer(*steps);
+      if (adapt.max_steps < 2 || adapt.max_steps > 30)
+        fail(*steps, "max_steps must lie between 2 and 30, got `" + steps->node.Scalar() + "`",
+             "Two meshes are the fewest that show a change; 8 is the default");
+    }
+    return adapt;
   }
 
   // Something must set the potential: a ground plane or an electrode with a fixed potential (box
