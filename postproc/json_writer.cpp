@@ -84,6 +84,7 @@ std::string solver_object(const RunResults& results, int depth) {
                   {"method", json_string(report.method)},
                   {"dofs", json_integer(report.dofs)},
                   {"factor_nonzeros", json_integer(report.factor_nonzeros)},
+                  {"iterations", json_integer(report.iterations)},
                   {"relative_residual", json_number(report.relative_residual)},
                   {"seconds_assemble", json_number(report.seconds_assemble)},
                   {"seconds_factorize", json_number(report.seconds_factorize)},

@@ -244,6 +244,7 @@ std::string solver_section(const RunResults& results) {
   out += "- method: " + report.method + (report.ok ? "" : " (failed: " + one_line(report.message) + ")") + "\n";
   out += "- unknowns: " + std::to_string(report.dofs) + "\n";
   out += "- nonzeros of the factor: " + std::to_string(report.factor_nonzeros) + "\n";
+  if (report.iterations > 0) out += "- conjugate-gradient iterations: " + std::to_string(report.iterations) + "\n";
   out += "- worst relative residual: " + significant(report.relative_residual, 3) + "\n\n";
   return out;
 }
