@@ -65,12 +65,16 @@ std::vector<bool> hot_surface_nodes(const RunResults& results, int n_electrodes)
   return hot;
 }
 
-// Straight area of a triangle from its vertices.
+// Area of the straight triangle a, b, c.
+double straight_area(const Point& a, const Point& b, const Point& c) {
+  return 0.5 * std::abs((b.r - a.r) * (c.z - a.z) - (c.r - a.r) * (b.z - a.z));
+}
+
+// Straight area of a mesh triangle from its vertices.
 double vertex_area(const Mesh& mesh, int t) {
   const int* v = mesh.triangle(t);
-  const Point &a = mesh.nodes[static_cast<size_t>(v[0])], &b = mesh.nodes[static_cast<size_t>(v[1])],
-              &c = mesh.nodes[static_cast<size_t>(v[2])];
-  return 0.5 * std::abs((b.r - a.r) * (c.z - a.z) - (c.r - a.r) * (b.z - a.z));
+  return straight_area(mesh.nodes[static_cast<size_t>(v[0])], mesh.nodes[static_cast<size_t>(v[1])],
+                       mesh.nodes[static_cast<size_t>(v[2])]);
 }
 
 // Edge length of the equilateral triangle of the same area: the size a mesher aims at.
@@ -112,9 +116,8 @@ void limit_gradation(const Mesh& mesh, double growth, std::vector<double>& size)
 double predicted_triangles(const SizeMap& map) {
   double count = 0.0;
   for (const auto& tri : map.triangles) {
-    const Point &a = map.vertices[static_cast<size_t>(tri[0])], &b = map.vertices[static_cast<size_t>(tri[1])],
-                &c = map.vertices[static_cast<size_t>(tri[2])];
-    const double area = 0.5 * std::abs((b.r - a.r) * (c.z - a.z) - (c.r - a.r) * (b.z - a.z));
+    const double area = straight_area(map.vertices[static_cast<size_t>(tri[0])], map.vertices[static_cast<size_t>(tri[1])],
+                                      map.vertices[static_cast<size_t>(tri[2])]);
     const double h = (map.size[static_cast<size_t>(tri[0])] + map.size[static_cast<size_t>(tri[1])] +
                       map.size[static_cast<size_t>(tri[2])]) / 3;
     count += area / (h * h);
