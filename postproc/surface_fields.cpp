@@ -5,6 +5,8 @@
 #include <map>
 #include <unordered_map>
 
+#include <Eigen/QR>
+
 #include "solver/elements.h"
 #include "solver/mesh_edges.h"
 
@@ -147,77 +149,168 @@ struct Outline {
   std::unordered_map<int, std::vector<int>> edges_at_node;
 };
 
-// A face that ends on the axis crosses it at a right angle, so the flux is even in the distance d
-// from the pole: q = q_pole + c d^2 near it. The one-sided hat at the pole would average over the
-// rising side only, so the pole takes the value of that parabola through the next two vertices. The
-// d^4 term it leaves out errs by O(h^4) at the pole, below the error of the vertices themselves for
-// P1, P2 and P3 alike; only vertices enter, so it does not depend on the order.
-void fix_pole(const Mesh& mesh, const std::vector<int>& nodes, size_t step, std::vector<double>& flux, size_t end) {
-  const Point pole = mesh.nodes[static_cast<size_t>(nodes[end])];
-  if (pole.r != 0.0 || nodes.size() < 2 * step + 1) return;
-  const size_t first = end == 0 ? step : end - step, second = end == 0 ? 2 * step : end - 2 * step;
-  auto squared_distance = [&](size_t k) {
-    const Point p = mesh.nodes[static_cast<size_t>(nodes[k])];
-    return (p.r - pole.r) * (p.r - pole.r) + (p.z - pole.z) * (p.z - pole.z);
-  };
-  const double d1 = squared_distance(first), d2 = squared_distance(second);
-  const double curvature = (flux[second] - flux[first]) / (d2 - d1);
-  flux[end] = flux[first] - curvature * d1;
+// Arc length of an edge between parameters t0 and t1: integral of |dx/dt| dt.
+double arc_length(const Mesh& mesh, const BoundaryEdge& edge, double t0, double t1) {
+  double length = 0;
+  for (const EdgePoint& q : edge_rule(mesh.order)) length += sample_edge(mesh, edge, t0 + (t1 - t0) * q.t).ds_dt * (t1 - t0) * q.weight;
+  return length;
 }
 
-// eps_r E_n (V/m, normal into the region) at the nodes of one face, in chain order, from the
-// residual at its nodes and the lumped boundary mass (row sums of the mass matrix of N_i 2 pi r ds;
-// the consistent P2 mass matrix amplifies the residual's small node-to-node errors into oscillations).
-// For P2 and P3 the flux is taken in the P1 subspace, whose hat function at a vertex is N_vertex plus,
-// for each neighbouring inner node j places away (of `order` per edge), (1 - j / order) times its N:
-// its residual averages out the alternating vertex / inner-node errors of P2 residuals (measured on a
-// sphere: 0.35 % down to 0.03 %), and it stays defined on the axis, where the integral of a P2 or P3
-// vertex's N_i 2 pi r vanishes. Inner nodes interpolate linearly between their two vertices.
-// Where the face meets another outline face (a corner, a triple junction, the open boundary), the
-// other face's share of the residual is taken out with its directly computed flux.
+// The P1 hat functions of a face's vertices sampled along it: at the points of a Gauss rule on every
+// edge, the arc length and the weights 2 pi r ds of the hats of the edge's two end vertices. A hat is
+// linear in the edge parameter (1 - t and t), so it is a valid test function of the P2 and P3 spaces
+// too (their shape functions reproduce linear functions).
+struct FaceHats {
+  struct Sample {
+    double s = 0.0;
+    int edge = 0;          // the hats of vertices `edge` and `edge + 1`
+    double weight[2] = {0.0, 0.0};  // hat 2 pi r ds_dt w
+  };
+  std::vector<double> node_s;  // arc length of every chain node
+  std::vector<Sample> samples;  // edge by edge, edge_rule(kMomentRuleOrder).size() per edge
+};
+
+// The moments integrate s^m times a hat over curved edges; 5-point Gauss-Legendre (exact to degree 9 in
+// the edge parameter) keeps their quadrature error far below the fit's own.
+constexpr int kMomentRuleOrder = 3;
+
+FaceHats face_hats(const Mesh& mesh, const std::vector<BoundaryEdge>& face) {
+  const int step = mesh.order;
+  FaceHats hats;
+  hats.node_s.assign(face.size() * static_cast<size_t>(step) + 1, 0.0);
+  double start = 0.0;
+  for (size_t e = 0; e < face.size(); ++e) {
+    for (const EdgePoint& q : edge_rule(kMomentRuleOrder)) {
+      const EdgeSample at = sample_edge(mesh, face[e], q.t);
+      const double weight = 2 * kPi * at.at.r * at.ds_dt * q.weight;
+      hats.samples.push_back({start + arc_length(mesh, face[e], 0.0, q.t), static_cast<int>(e), {(1 - q.t) * weight, q.t * weight}});
+    }
+    for (int j = 1; j < step; ++j)
+      hats.node_s[e * static_cast<size_t>(step) + static_cast<size_t>(j)] = start + arc_length(mesh, face[e], 0.0, static_cast<double>(j) / step);
+    start += arc_length(mesh, face[e], 0.0, 1.0);
+    hats.node_s[(e + 1) * static_cast<size_t>(step)] = start;
+  }
+  return hats;
+}
+
+// The residual of a face's vertex hats from the residual shares of its nodes: the P2 or P3 vertex's
+// own share plus, for each inner node j places away (of `step` per edge), (1 - j / step) times its
+// share. The hat's residual averages out the alternating vertex / inner-node errors of the single
+// node residuals (measured on a sphere: 0.35 % down to 0.03 %), and it stays defined on the axis,
+// where the integral of a P2 or P3 vertex's N_i 2 pi r vanishes.
+std::vector<double> hat_residuals(const std::vector<double>& share, int step) {
+  std::vector<double> residual;
+  const size_t stride = static_cast<size_t>(step);
+  for (size_t k = 0; k < share.size(); k += stride) {
+    double sum = share[k];
+    for (size_t j = 1; j < stride; ++j) {
+      const double hat = 1.0 - static_cast<double>(j) / static_cast<double>(step);
+      if (k >= j) sum += hat * share[k - j];
+      if (k + j < share.size()) sum += hat * share[k + j];
+    }
+    residual.push_back(sum);
+  }
+  return residual;
+}
+
+// The fit around one node: a quadratic in the arc length, fitted to the hats of the vertices within
+// kFitReach edges on either side of the node (of its own edge, for an inner node). Chosen by measurement
+// (docs/methods.md): a cubic, or a reach of 3, amplified the residual's node-to-node noise more than it
+// removed smoothing error, on the coaxial, concentric-sphere and sphere-above-plane cases alike.
+constexpr int kFitReach = 2;
+constexpr int kFitDegree = 2;
+
+// The edges [first, last) whose vertex hats inform the flux at chain node k: kFitReach edges on either
+// side, shifted inwards where the face ends so that a node near an end still sees as many.
+std::pair<int, int> fit_window(size_t k, int step, int edges) {
+  const int node = static_cast<int>(k);
+  int first = node / step - kFitReach;
+  int last = (node % step == 0 ? node / step : node / step + 1) + kFitReach;
+  if (first < 0) last -= first, first = 0;
+  if (last > edges) first -= last - edges, last = edges;
+  return {std::max(first, 0), std::min(last, edges)};
+}
+
+// eps_r E_n at chain node k of a face. The hat residuals are weak values, R_v = integral of q hat_v
+// 2 pi r ds with q = eps_r E_n, so a local polynomial q(s) is fitted to them by least squares through
+// its exact moments and evaluated at the node. Dividing R_v by the hat's lumped mass instead smooths q
+// over two elements and errs by O(h^2) q'' wherever q varies along the surface, whatever the element
+// order; the fit removes that smoothing error up to its degree. Vertices whose hat reaches outside the
+// window are not used. Near a face end on the axis the fit takes even powers of the distance from the
+// pole: the surface crosses the axis at a right angle, so the field is even in that distance.
+double fitted_flux(const FaceHats& hats, const std::vector<double>& hat_residual, size_t k, int step,
+                   bool pole_at_start, bool pole_at_end) {
+  const int edges = static_cast<int>(hat_residual.size()) - 1;
+  const auto [first, last] = fit_window(k, step, edges);
+  const int from = first > 0 ? first + 1 : 0, to = last < edges ? last - 1 : last;  // vertices used
+  const int equations = to - from + 1;
+
+  const double scale = (hats.node_s[static_cast<size_t>(last * step)] - hats.node_s[static_cast<size_t>(first * step)]) / (last - first);
+  const bool even_from_start = pole_at_start && first == 0, even_from_end = pole_at_end && last == edges;
+  const bool even = even_from_start || even_from_end;
+  const double centre = even_from_start ? hats.node_s.front() : even_from_end ? hats.node_s.back() : hats.node_s[k];
+  const int power_step = even ? 2 : 1;
+  const int terms = std::min(kFitDegree / power_step + 1, equations);
+
+  Eigen::MatrixXd moments = Eigen::MatrixXd::Zero(equations, terms);
+  const size_t per_edge = edge_rule(kMomentRuleOrder).size();
+  for (size_t n = static_cast<size_t>(first) * per_edge; n < static_cast<size_t>(last) * per_edge; ++n) {
+    const FaceHats::Sample& sample = hats.samples[n];
+    for (int end = 0; end < 2; ++end) {
+      const int row = sample.edge + end - from;
+      if (row < 0 || row >= equations) continue;
+      const double x = (sample.s - centre) / scale;
+      for (int m = 0; m < terms; ++m) moments(row, m) += sample.weight[end] * std::pow(x, m * power_step);
+    }
+  }
+  const Eigen::VectorXd data = Eigen::Map<const Eigen::VectorXd>(hat_residual.data() + from, equations);
+  const Eigen::VectorXd coefficients = moments.colPivHouseholderQr().solve(data);
+  const double x = (hats.node_s[k] - centre) / scale;
+  double value = 0.0;
+  for (int m = 0; m < terms; ++m) value += coefficients(m) * std::pow(x, m * power_step);
+  return value;
+}
+
+// The share of a node's residual that belongs to a face: its residual less, where the face meets
+// another outline face (a corner, a triple junction, the open boundary), the other face's share,
+// taken out with its directly computed flux.
+double own_share(const Mesh& mesh, const Eigen::VectorXd& potential, const MeshEdges& edges, const Outline& outline,
+                 const std::vector<int>& own_edges, int node) {
+  double share = outline.residual.at(node);
+  for (int e : outline.edges_at_node.at(node)) {
+    if (std::find(own_edges.begin(), own_edges.end(), e) != own_edges.end()) continue;
+    const MeshEdge& other = edges.all()[static_cast<size_t>(e)];
+    const std::array<double, kMaxEdgeNodes> moments = direct_flux_moments(mesh, potential, other, outline.region);
+    for (size_t i = 0; i < moments.size(); ++i)
+      if (other.nodes[i] == node) share -= moments[i];
+  }
+  return share;
+}
+
+// eps_r E_n (V/m, normal into the region) at the nodes of one face, in chain order, fitted to the
+// residual of its vertex hats (fitted_flux). A closed face (a torus's cross-section) has no ends: it is
+// fitted as an open chain that runs kFitReach + 1 edges further at both ends, so that every node of the
+// face sees whole windows and its first node's residual (which spans both its edges) fits its hat.
 std::vector<double> face_flux(const Mesh& mesh, const Eigen::VectorXd& potential, const MeshEdges& edges,
                               const Outline& outline, const std::vector<BoundaryEdge>& face) {
-  std::unordered_map<int, double> weight;
   std::vector<int> own_edges;
-  for (const BoundaryEdge& edge : face) {
-    own_edges.push_back(edges.find(edge.nodes[0], edge.nodes[1]));
-    for (const EdgePoint& q : edge_rule(mesh.order)) {
-      const EdgeSample s = sample_edge(mesh, edge, q.t);
-      for (int i = 0; i < s.n; ++i) weight[edge.nodes[static_cast<size_t>(i)]] += s.N[i] * 2 * kPi * s.at.r * s.ds_dt * q.weight;
-    }
-  }
+  for (const BoundaryEdge& edge : face) own_edges.push_back(edges.find(edge.nodes[0], edge.nodes[1]));
   const std::vector<int> nodes = chain_nodes(face);
-  std::vector<double> share, mass;
-  for (int node : nodes) {
-    double own_share = outline.residual.at(node);
-    for (int e : outline.edges_at_node.at(node)) {
-      if (std::find(own_edges.begin(), own_edges.end(), e) != own_edges.end()) continue;
-      const MeshEdge& other = edges.all()[static_cast<size_t>(e)];
-      const std::array<double, kMaxEdgeNodes> moments = direct_flux_moments(mesh, potential, other, outline.region);
-      for (size_t i = 0; i < moments.size(); ++i)
-        if (other.nodes[i] == node) own_share -= moments[i];
-    }
-    share.push_back(own_share);
-    mass.push_back(weight.at(node));
-  }
-  const size_t step = static_cast<size_t>(mesh.order);  // from one vertex to the next in chain order
-  std::vector<double> flux(nodes.size(), 0.0);
-  for (size_t k = 0; k < nodes.size(); k += step) {
-    double residual = share[k], lumped = mass[k];
-    for (size_t j = 1; j < step; ++j) {
-      const double hat = 1.0 - static_cast<double>(j) / static_cast<double>(step);  // P1 hat of vertex k
-      if (k >= j) residual += hat * share[k - j], lumped += hat * mass[k - j];
-      if (k + j < nodes.size()) residual += hat * share[k + j], lumped += hat * mass[k + j];
-    }
-    flux[k] = residual / lumped;
-  }
-  fix_pole(mesh, nodes, step, flux, 0);
-  fix_pole(mesh, nodes, step, flux, nodes.size() - 1);
-  for (size_t k = 0; k + step < nodes.size(); k += step)
-    for (size_t j = 1; j < step; ++j) {
-      const double along = static_cast<double>(j) / static_cast<double>(step);
-      flux[k + j] = (1.0 - along) * flux[k] + along * flux[k + step];
-    }
+  const bool closed = nodes.front() == nodes.back();
+  const size_t overlap = closed ? kFitReach + 1 : 0;
+  std::vector<BoundaryEdge> chain;
+  for (size_t i = 0; i < face.size() + 2 * overlap; ++i) chain.push_back(face[(i + face.size() * overlap - overlap) % face.size()]);
+
+  std::vector<double> share;
+  for (int node : chain_nodes(chain)) share.push_back(own_share(mesh, potential, edges, outline, own_edges, node));
+  const FaceHats hats = face_hats(mesh, chain);
+  const std::vector<double> hat_residual = hat_residuals(share, mesh.order);
+  const bool pole_at_start = !closed && mesh.nodes[static_cast<size_t>(nodes.front())].r == 0.0;
+  const bool pole_at_end = !closed && mesh.nodes[static_cast<size_t>(nodes.back())].r == 0.0;
+  const size_t offset = overlap * static_cast<size_t>(mesh.order);
+  std::vector<double> flux(nodes.size());
+  for (size_t k = 0; k < nodes.size(); ++k)
+    flux[k] = fitted_flux(hats, hat_residual, offset + k, mesh.order, pole_at_start, pole_at_end);
   return flux;
 }
 
@@ -248,13 +341,6 @@ std::vector<double> run_flux(const Mesh& mesh, const Eigen::VectorXd& potential,
     }
   }
   return flux;
-}
-
-// Arc length of an edge between parameters t0 and t1: integral of |dx/dt| dt.
-double arc_length(const Mesh& mesh, const BoundaryEdge& edge, double t0, double t1) {
-  double length = 0;
-  for (const EdgePoint& q : edge_rule(mesh.order)) length += sample_edge(mesh, edge, t0 + (t1 - t0) * q.t).ds_dt * (t1 - t0) * q.weight;
-  return length;
 }
 
 // -du/ds along an edge at parameter t (direction of travel: first node to second).

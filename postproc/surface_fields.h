@@ -2,12 +2,14 @@
 // electrode surface and on both sides of every dielectric interface (for hot spots).
 //
 // Surface field: consistent boundary flux (Carey, Chow & Seager, Comput. Methods Appl. Mech. Eng. 50,
-// 1985). The residual of one region's element equations at the nodes of a boundary is the weighted
-// normal flux there; dividing by the lumped boundary mass (row sums, weight 2 pi r ds) turns it into
-// the pointwise normal displacement D_n, hence E_n = D_n / (eps0 eps_r) and sigma = D_n. Faces meeting
-// at a corner or junction share a node's residual; see surface_fields.cpp. Pointwise accuracy is
-// second order in h for P2 (measured: 0.02 % on coaxial cylinders with h = a/16). The tangential
-// part comes from the derivative of the potential along the boundary.
+// 1985). The residual of one region's element equations at the nodes of a boundary is the weak normal
+// displacement there, the integral of D_n N_i 2 pi r ds; a quadratic in the arc length fitted to the
+// residuals of the vertex hat functions nearby turns it into the pointwise D_n, hence
+// E_n = D_n / (eps0 eps_r) and sigma = D_n (see surface_fields.cpp and docs/methods.md). Faces meeting
+// at a corner or junction share a node's residual. Pointwise accuracy is that of the residual, which
+// the fit also averages (coaxial cylinders, P2, h = a/16: 1e-6), not O(h^2) where the field varies
+// along the surface (the error of dividing by a lumped mass). The tangential part comes from the derivative of the potential
+// along the boundary.
 #pragma once
 
 #include <array>

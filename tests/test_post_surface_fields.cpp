@@ -61,8 +61,8 @@ TEST(SurfaceField, CoaxialElectrodesCarryTheAnalyticField) {
   EXPECT_EQ(inner.conductor, 0);
   EXPECT_EQ(outer.conductor, 1);
   // Away from the conductor: outward at the inner one, inward (negative) at the outer one.
-  EXPECT_LT(worst_normal_error(inner, coax_field(coax, coax.a)), 3e-4);   // measured 1.6e-4
-  EXPECT_LT(worst_normal_error(outer, -coax_field(coax, coax.b)), 1e-4);  // measured 2.1e-5
+  EXPECT_LT(worst_normal_error(inner, coax_field(coax, coax.a)), 3e-4);   // measured 1.1e-6 (smoothing flux: 1.6e-4)
+  EXPECT_LT(worst_normal_error(outer, -coax_field(coax, coax.b)), 1e-4);  // measured 3.0e-7 (smoothing flux: 2.1e-5)
   for (const SurfaceField* f : {&inner, &outer})
     for (const SurfaceSample& s : f->contours.at(0)) {
       EXPECT_NEAR(s.sigma, kEpsilon0 * s.E_n, 1e-12 * std::abs(s.sigma));  // sigma = D_n = eps0 E_n
@@ -79,12 +79,12 @@ TEST(SurfaceField, CoaxialElectrodesCarryTheAnalyticField) {
 TEST(SurfaceField, P2BeatsP1AtEqualUnknowns) {
   // Same node grid (33 x 5): P1 with twice the cells in each direction.
   const double p1 = inner_electrode_error(1, 32, 4), p2 = inner_electrode_error(2, 16, 2);
-  EXPECT_LT(10 * p2, p1);  // measured 6.0e-4 against 9.0e-3
+  EXPECT_LT(10 * p2, p1);  // measured 6.3e-5 against 4.1e-3
 }
 
 TEST(SurfaceField, P2ErrorFallsAtLeastThreefoldWhenTheMeshSizeHalves) {
   const double coarse = inner_electrode_error(2, 8, 2), fine = inner_electrode_error(2, 16, 4);
-  EXPECT_GT(coarse / fine, 3.0);  // measured 2.8e-3 -> 7.9e-4, a factor 3.6
+  EXPECT_GT(coarse / fine, 3.0);  // measured 4.8e-4 -> 9.0e-6 (smoothing flux: 2.8e-3 -> 7.9e-4)
 }
 
 TEST(SurfaceField, TwoLayerInterfaceSidesFollowTheSeriesFormula) {
@@ -102,13 +102,13 @@ TEST(SurfaceField, TwoLayerInterfaceSidesFollowTheSeriesFormula) {
   const SurfaceField& side2 = field_named(fields, "layer1|layer0", 1);
   EXPECT_EQ(side1.kind, BoundaryKind::Interface);
   EXPECT_EQ(side1.conductor, -1);
-  EXPECT_LT(worst_normal_error(side1, -kVolts / (c * S * eps1)), 5e-4);  // measured 2.6e-4
+  EXPECT_LT(worst_normal_error(side1, -kVolts / (c * S * eps1)), 5e-4);  // measured 1.8e-5
   EXPECT_LT(worst_normal_error(side2, kVolts / (c * S * eps2)), 5e-4);
   for (size_t k = 0; k < side1.contours[0].size(); ++k) {
     EXPECT_NEAR(eps1 * side1.contours[0][k].E_n, -eps2 * side2.contours[0][k].E_n, 1e-6 * eps2 * side2.contours[0][k].E_n);
     EXPECT_EQ(side1.contours[0][k].sigma, 0.0);  // no free charge on an interface
   }
-  EXPECT_LT(worst_normal_error(field_named(fields, "inner", 0), kVolts / (coax.a * S * eps1)), 1e-3);  // 6.0e-4
+  EXPECT_LT(worst_normal_error(field_named(fields, "inner", 0), kVolts / (coax.a * S * eps1)), 1e-3);  // 6.7e-5
 }
 
 TEST(SurfaceField, SpherePoleOnTheAxisIsAccurate) {
@@ -124,9 +124,9 @@ TEST(SurfaceField, SpherePoleOnTheAxisIsAccurate) {
   EXPECT_EQ(samples.back().at.r, 0.0);
   const double pole = std::abs(samples.front().E_n / exact - 1), equator = std::abs(samples[48].E_n / exact - 1);
   const double other_pole = std::abs(samples.back().E_n / exact - 1);
-  EXPECT_LT(equator, 1e-4);     // measured 2.6e-5 (h = 0.375 a radially)
-  EXPECT_LT(pole, 1e-3);        // measured 6.6e-4
-  EXPECT_LT(other_pole, 1e-3);  // measured 6.0e-4
+  EXPECT_LT(equator, 1e-4);     // measured 1.7e-5 (h = 0.375 a radially)
+  EXPECT_LT(pole, 1e-3);        // measured 3.7e-4
+  EXPECT_LT(other_pole, 1e-3);  // measured 3.4e-4
   EXPECT_NEAR(samples.back().s, kPi * a, 1e-6 * a);  // half a great circle
 }
 
