@@ -15,7 +15,8 @@
 
 namespace hv {
 
-// Nodes split into free unknowns and fixed (conductor) values, each numbered from 0 in node order.
+// Nodes split into free unknowns and fixed (conductor) values, each numbered from 0 (partition_nodes:
+// along a Hilbert curve through the nodes' positions; the others: in node order).
 struct Partition {
   std::vector<int> index;      // per node: its number among the free or among the fixed nodes
   std::vector<int> conductor;  // per node, -1 when free
@@ -25,14 +26,20 @@ struct Partition {
 
 // The conductor of every node from the mesh's electrode and ground-plane boundaries. A node where
 // two conductors meet (a box corner) belongs to the one whose boundary comes first in the mesh.
+// Free and fixed nodes are each numbered in the order a Hilbert curve visits them, so that the rows of
+// K_ff that couple lie near each other in memory (the iterative solve reads them row by row).
 // Throws RunError when no node is fixed or none is free.
 Partition partition_nodes(const Mesh& mesh, int n_conductors);
 
 // Every node free: the blocks then hold the whole matrix in K_ff.
 Partition all_nodes_free(const Mesh& mesh);
 
-// The partition of nodes 0..conductor.size()-1 given each node's conductor (-1: free).
+// The partition of nodes 0..conductor.size()-1 given each node's conductor (-1: free), numbering
+// free and fixed nodes each in node order.
 Partition partition_by_conductor(std::vector<int> conductor);
+
+// The same, numbering in the order of `sequence` (every node once).
+Partition partition_in_sequence(std::vector<int> conductor, const std::vector<int>& sequence);
 
 struct BlockSystem {
   // Symmetric with both triangles stored, so column j also reads as row j (CSC = CSR).
@@ -53,12 +60,17 @@ struct ElementSet {
   int n_nodes = 0;
   int n_elements = 0;
   int per_element = 0;
-  const int* nodes = nullptr;
+  std::vector<int> nodes;
   std::vector<double> matrices;
 };
 
-// The blocks of the sum of the element matrices, summed row by row in element order.
+// The blocks of the sum of the element matrices, summed row by row in element order. Elements listed
+// in the order of triangles_in_row_order make the assembly read memory locally.
 BlockSystem assemble_element_set(const ElementSet& elements, const Partition& partition);
+
+// The mesh's triangles ordered by the first matrix row (free rows, then fixed rows, as numbered by
+// `partition`) among their nodes.
+std::vector<int> triangles_in_row_order(const Mesh& mesh, const Partition& partition);
 
 // The open-boundary matrix of one Open edge: eps_r (c / R) integral of N_i N_j 2 pi r ds over its
 // nodes (BoundaryEdge order: end nodes, then inner nodes).

@@ -57,6 +57,10 @@ class FactorizationCache {
 // sphere-above-plane case (P2, 2 conductors, OPENBLAS_NUM_THREADS=1): at 9.4e4 unknowns factor+solve
 // 2.1 s direct against 2.9 s CG (10 iterations); at 2.7e5 9.5 s against 9.0 s, with the solve's
 // peak memory 408 MB against 234 MB; above that the factor's fill grows faster than CG's cost.
+// Re-measured after the CG's rework (bench-sphere-box P2, 3 conductors, one OpenMP thread, machine
+// loaded by other work): at 1.0e5 unknowns factor+solve 3.4 s direct against 1.4 s CG (10
+// iterations), at 4.1e5 15.9 s against 9.7 s; so CG now wins below this threshold too. It stays here
+// until the crossover is measured on an idle machine with two threads (figures there were too noisy).
 constexpr int kIterativeFromDofs = 250000;
 
 // X = K_ff^-1 B by the method `kind` asks for (Automatic: see kIterativeFromDofs; order-1 meshes

@@ -7,7 +7,10 @@
 // other nodes' reference positions. The coarse matrix is the Galerkin product A_c = P^T A P, assembled
 // element by element and factorized once by CHOLMOD; the fine level is smoothed by one forward
 // Gauss-Seidel sweep before and one backward sweep after the coarse correction, which keeps the
-// V-cycle symmetric positive definite, as CG needs. The columns (one per conductor) run in lockstep.
+// V-cycle symmetric positive definite, as CG needs. The columns (one per conductor) run in lockstep,
+// side by side in memory, and the free unknowns come numbered along a Hilbert curve (partition_nodes),
+// so each row's neighbours are read from cache. Products and reductions run on all threads and give
+// the same bits for any thread count; the Gauss-Seidel sweeps are sequential.
 // Sources: Ronquist & Patera, Int. J. Numer. Methods Eng. 24 (1987) (p-multigrid for spectral
 // elements); Helenbrook, Mavriplis & Atkins, AIAA J. 41 (2003) (p-multigrid for high-order FE).
 //
@@ -25,7 +28,8 @@
 
 namespace hv {
 
-// The interpolation of free vertex values (coarse unknowns: free vertex nodes, numbered in node order)
+// The interpolation of free vertex values (coarse unknowns: free vertex nodes, numbered in the order
+// of their numbers in `partition`)
 // at every free node of the mesh; conductor vertices contribute 0 (homogeneous corrections).
 Eigen::SparseMatrix<double> p1_prolongation(const Mesh& mesh, const Partition& partition);
 
@@ -50,11 +54,13 @@ class PMultigridSolver {
 
  private:
   struct Coarse;
-  void precondition(const Block& R, Block& Z) const;
+  bool solve_columns(const Eigen::MatrixXd& B, double tolerance, int max_iterations, Eigen::MatrixXd& X);
+  // W: workspace of R's shape.
+  void precondition(const Block& R, Block& Z, Block& W) const;
   void sweep(const Block& B, Block& X, int step) const;
 
   const Eigen::SparseMatrix<double>& A_;
-  Eigen::VectorXd diagonal_;
+  Eigen::VectorXd inverse_diagonal_;
   std::unique_ptr<Coarse> coarse_;
   int iterations_ = 0;
 };
