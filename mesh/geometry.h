@@ -100,6 +100,7 @@ struct AdaptSpec {
 
 struct MeshSpec {
   int order = 2;             // 1: straight 3-node triangles, 2: curved 6-node, 3: curved 10-node triangles
+  bool order_given = false;  // the case chose the order; else an adaptive run chooses it (adaptive.h)
   double surface_size = 0;   // element size on electrode surfaces; 0 = from curvature
   double max_size = 0;       // largest element anywhere; 0 = default
   double growth = 1.3;       // size ratio between neighbouring elements, at most

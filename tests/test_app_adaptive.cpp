@@ -7,6 +7,7 @@
 
 #include "app_fixture.h"
 #include "solver/elements.h"
+#include "tools/app/adaptive.h"
 
 namespace hv {
 namespace {
@@ -34,6 +35,16 @@ TEST(Adaptive, IsolatedSphereReachesTheToleranceAgainstTheClosedForm) {
   const Case the_case = read_case(bundled_case("sphere-isolated.yaml"));
   ASSERT_TRUE(the_case.geometry.mesh.adaptive());  // no sizes given: adaptive by default
   const auto outcome = compute_case(the_case);
+  expect_certified(outcome->results, 0, kU / 0.05);
+}
+
+// At a tight tolerance, a case that does not give mesh.order is refined with cubic elements, and the
+// result is still certified against the closed form.
+TEST(Adaptive, TightToleranceChoosesCubicElementsAndStillCertifies) {
+  Case the_case = read_case(bundled_case("sphere-isolated.yaml"));
+  the_case.geometry.mesh.adapt.tolerance = 1e-5;
+  const auto outcome = compute_case(the_case);
+  for (const AccuracyStep& step : outcome->results.accuracy.steps) EXPECT_EQ(step.order, 3);
   expect_certified(outcome->results, 0, kU / 0.05);
 }
 
@@ -116,6 +127,13 @@ TEST(AdaptKeys, ValuesAreRead) {
   EXPECT_FALSE(with_mesh("mesh: {max_size: 5}").geometry.mesh.adaptive());
   EXPECT_TRUE(with_mesh("").geometry.mesh.adaptive());
   EXPECT_DOUBLE_EQ(with_mesh("").geometry.mesh.adapt.tolerance, 1e-3);  // the documented default
+}
+
+TEST(AdaptiveOrder, TheCaseDecidesWhenItGivesAnOrder) {
+  EXPECT_EQ(adaptive_order(with_mesh("").geometry.mesh), 2);
+  EXPECT_EQ(adaptive_order(with_mesh("mesh: {adapt: {tolerance: 1e-5}}").geometry.mesh), 3);
+  EXPECT_EQ(adaptive_order(with_mesh("mesh: {order: 2, adapt: {tolerance: 1e-5}}").geometry.mesh), 2);
+  EXPECT_EQ(adaptive_order(with_mesh("mesh: {order: 3}").geometry.mesh), 3);
 }
 
 TEST(AdaptKeys, BadValuesNameTheKey) {

@@ -70,22 +70,17 @@ double driving_voltage(const Case& the_case) {
   return largest;
 }
 
-// Meshes `geometry` (from its sizes, or following `sizes`) and computes the field, the surface fields
-// and, with onset settings, the onset on that mesh. Timings are this mesh's; total is filled later.
-std::unique_ptr<RunOutcome> solve_one_mesh(const Case& the_case, const GeometrySpec& geometry, const SizeMap* sizes,
-                                           const std::optional<GasModel>& gas,
-                                           const std::optional<OnsetSettings>& onset_settings,
-                                           const StepListener& on_step) {
+// Computes the field and the surface fields on `meshed`. Timings are this mesh's; total is filled
+// later.
+std::unique_ptr<RunOutcome> solve_one_mesh(const Case& the_case, MeshResult meshed, const StepListener& on_step) {
   auto outcome = std::make_unique<RunOutcome>();
   RunResults& results = outcome->results;
-  const auto start = std::chrono::steady_clock::now();
-  announce(on_step, "meshing");
-  outcome->meshed = build_mesh(geometry, sizes);
+  outcome->meshed = std::move(meshed);
   const Mesh& mesh = outcome->meshed.mesh;
   results.mesh = &mesh;
   results.mesh_stats = outcome->meshed.stats;
   results.warnings = outcome->meshed.warnings;
-  results.timings.mesh = seconds_since(start);
+  results.timings.mesh = outcome->meshed.stats.seconds;
 
   announce(on_step, "solving");
   outcome->solution = solve_field(field_problem(the_case, mesh));
@@ -115,11 +110,6 @@ std::unique_ptr<RunOutcome> solve_one_mesh(const Case& the_case, const GeometryS
   results.has_ground_plane = the_case.geometry.ground_plane.present;
   if (results.has_ground_plane) results.ground_plane_charge_C = solution.conductor_charge_C.back();
   results.timings.post = seconds_since(post_start);
-
-  if (onset_settings) {
-    announce(on_step, "evaluating discharge onset");
-    results.onset = evaluate_onset(mesh, solution.potential, results.surfaces, *gas, *onset_settings);
-  }
   return outcome;
 }
 
@@ -147,15 +137,23 @@ std::unique_ptr<RunOutcome> compute_case(const Case& the_case, const StepListene
     gas = GasModel::from_spec(the_case.gas);
     onset_settings = resolve_onset_settings(the_case.onset, *gas, driving_voltage(the_case));
   }
-  auto solve_step = [&](const GeometrySpec& geometry, const SizeMap* sizes) {
-    return solve_one_mesh(the_case, geometry, sizes, gas, onset_settings, on_step);
-  };
+  auto solve_step = [&](MeshResult meshed) { return solve_one_mesh(the_case, std::move(meshed), on_step); };
+  OnsetEvaluator onset;
+  if (onset_settings) {
+    onset = [&](RunOutcome& step) {
+      announce(on_step, "evaluating discharge onset");
+      step.results.onset = evaluate_onset(step.meshed.mesh, step.solution.potential, step.results.surfaces, *gas,
+                                          *onset_settings);
+    };
+  }
 
   std::unique_ptr<RunOutcome> outcome;
   if (the_case.geometry.mesh.adaptive()) {
-    outcome = run_adaptive(the_case, solve_step, on_step);
+    outcome = run_adaptive(the_case, solve_step, onset, on_step);
   } else {
-    outcome = solve_step(the_case.geometry, nullptr);
+    announce(on_step, "meshing");
+    outcome = solve_step(build_mesh(the_case.geometry));
+    if (onset) onset(*outcome);
     // A fixed mesh still gets the global estimate; its maxima have no second mesh to compare with.
     Accuracy& accuracy = outcome->results.accuracy;
     accuracy.energy_error = zz_error_estimate(outcome->meshed.mesh, outcome->solution.potential).relative();

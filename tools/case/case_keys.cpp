@@ -84,7 +84,7 @@ const std::vector<CaseKey>& case_keys() {
        "as top; not allowed with a ground plane, which is the bottom"},
 
       {"mesh", T::Section, K::Number, "automatic", "mesh controls"},
-      {"mesh.order", T::Integer, K::Number, "2", "1: straight 3-node triangles, 2: curved 6-node triangles, 3: curved 10-node triangles"},
+      {"mesh.order", T::Integer, K::Number, "2 (adaptive: 2, or 3 at tolerances of 1e-5 and below)", "1: straight 3-node triangles, 2: curved 6-node triangles, 3: curved 10-node triangles"},
       {"mesh.surface_size", T::Value, K::Length, "60 per turn of curvature",
        "element size on electrode surfaces (default: 60 elements per full turn of the smallest radius, or 1/8 of the shorter side of a straight-edged electrode)"},
       {"mesh.max_size", T::Value, K::Length, "domain size / 10",

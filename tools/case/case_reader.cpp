@@ -720,6 +720,7 @@ class CaseReader {
     const Fields fields = section(*entry);
     if (const auto order = fields.get("order")) {
       mesh.order = integer(*order);
+      mesh.order_given = true;
       if (mesh.order < 1 || mesh.order > 3)
         fail(*order, "the element order must be 1, 2 or 3, got " + std::to_string(mesh.order),
              "Use 2 (curved second-order triangles), or 3 (curved cubic triangles) for the highest accuracy per "
