@@ -200,8 +200,7 @@ class SizeLookup {
 // Size fields in model units: per electrode Distance -> Threshold, the minimum of them as the
 // background mesh, and nothing taken from points, curvature or boundaries. With an adaptive size
 // map, Gmsh's size callback takes the map instead of the fields (bounded by the largest size).
-// Returns the tags of the fields it added.
-std::vector<int> set_element_sizes(const PaintedModel& model, const MeshSpec& mesh, const SizeLookup* adapted) {
+void set_element_sizes(const PaintedModel& model, const MeshSpec& mesh, const SizeLookup* adapted) {
   namespace field = gmsh::model::mesh::field;
   const double scale = model.length_scale, largest = to_model(model.max_size, scale);
   gmsh::option::setNumber("Mesh.MeshSizeExtendFromBoundary", 0);
@@ -218,10 +217,9 @@ std::vector<int> set_element_sizes(const PaintedModel& model, const MeshSpec& me
     gmsh::model::mesh::setSizeCallback([adapted, scale](int, int, double x, double y, double) {
       return to_model(adapted->at({x * scale, y * scale}), scale);
     });
-    return {};
+    return;
   }
 
-  std::vector<int> added;
   std::vector<double> thresholds;
   for (size_t e = 0; e < model.electrode_curves.size(); ++e) {
     const std::vector<int>& curves = model.electrode_curves[e];
@@ -241,14 +239,11 @@ std::vector<int> set_element_sizes(const PaintedModel& model, const MeshSpec& me
     field::setNumber(threshold, "DistMin", 0);
     field::setNumber(threshold, "DistMax", (largest - h) / (mesh.growth - 1));
     thresholds.push_back(threshold);
-    added.insert(added.end(), {distance, threshold});
   }
-  if (thresholds.empty()) return added;
+  if (thresholds.empty()) return;
   const int smallest = field::add("Min");
   field::setNumbers(smallest, "FieldsList", thresholds);
   field::setAsBackgroundMesh(smallest);
-  added.push_back(smallest);
-  return added;
 }
 
 // Determinant of the Jacobian of the isoparametric map at reference point (xi, eta); nodes as in Mesh.
@@ -394,34 +389,16 @@ std::vector<std::string> check_geometry(const GeometrySpec& spec) {
   });
 }
 
-struct Mesher::Model {
-  GmshSession session;  // first: open while the model below is built
-  GeometrySpec spec;
-  PaintedModel painted;
-  std::vector<int> size_fields;  // of the last mesh
-  explicit Model(const GeometrySpec& geometry)
-      : spec(geometry), painted(run_gmsh("building the geometry", [&] { return build_painted_model(spec); })) {}
-};
-
-Mesher::Mesher(const GeometrySpec& spec) : model_(std::make_unique<Model>(spec)) {
-  run_gmsh("meshing", [&] { require_affordable_mesh(model_->painted, spec.mesh); });
-}
-
-Mesher::~Mesher() = default;
-
-MeshResult Mesher::mesh(const SizeMap* sizes) {
+MeshResult build_mesh(const GeometrySpec& spec, const SizeMap* sizes) {
   const auto start = std::chrono::steady_clock::now();
-  const GeometrySpec& spec = model_->spec;
-  const PaintedModel& model = model_->painted;
+  GmshSession session;
   MeshResult result;
   ElectrodeEdges electrode_edges;
+  const PaintedModel model = run_gmsh("building the geometry", [&] { return build_painted_model(spec); });
   run_gmsh("meshing", [&] {
-    // A fresh start on the same geometry: no elements, size fields or size callback of the last mesh.
-    gmsh::model::mesh::clear();
-    for (int field : model_->size_fields) gmsh::model::mesh::field::remove(field);
-    gmsh::model::mesh::removeSizeCallback();
+    require_affordable_mesh(model, spec.mesh);
     const std::optional<SizeLookup> adapted = sizes ? std::optional<SizeLookup>(*sizes) : std::nullopt;
-    model_->size_fields = set_element_sizes(model, spec.mesh, adapted ? &*adapted : nullptr);
+    set_element_sizes(model, spec.mesh, adapted ? &*adapted : nullptr);
     gmsh::model::mesh::generate(2);
     gmsh::model::mesh::setOrder(spec.mesh.order);
     result.stats.dropped_degenerate = read_triangles(model, spec.mesh.order, result.mesh, electrode_edges);
@@ -437,7 +414,5 @@ MeshResult Mesher::mesh(const SizeMap* sizes) {
   result.stats.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   return result;
 }
-
-MeshResult build_mesh(const GeometrySpec& spec, const SizeMap* sizes) { return Mesher(spec).mesh(sizes); }
 
 }  // namespace hv

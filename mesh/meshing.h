@@ -3,7 +3,6 @@
 #pragma once
 
 #include <array>
-#include <memory>
 #include <string>
 #include <vector>
 
@@ -35,29 +34,9 @@ struct SizeMap {
   std::vector<double> size;                   // per vertex
 };
 
-// A design built once in Gmsh's OpenCASCADE kernel and meshed as often as asked: an adaptive loop
-// remeshes the same geometry with a new size map each step, and building and painting the model
-// (about a fifth of a small step's meshing time) then happens once. Holds the one Gmsh session
-// while it lives: at most one Mesher (or other meshing call) at a time.
-class Mesher {
- public:
-  // Builds and checks the geometry of `spec` (as check_geometry). Throws InputError.
-  explicit Mesher(const GeometrySpec& spec);
-  ~Mesher();
-  Mesher(const Mesher&) = delete;
-  Mesher& operator=(const Mesher&) = delete;
-
-  // Meshes with curved (or first-order) triangles and reads the mesh back: regions with their
-  // permittivity, boundaries classified and ordered into contours. With `sizes`, the elements follow
-  // that map (bounded by the largest size) instead of the surface-size fields. Replaces the last mesh.
-  MeshResult mesh(const SizeMap* sizes = nullptr);
-
- private:
-  struct Model;
-  std::unique_ptr<Model> model_;
-};
-
-// Mesher(spec).mesh(sizes): one mesh of a design.
+// check_geometry, then meshes with curved (or first-order) triangles and reads the mesh back:
+// regions with their permittivity, boundaries classified and ordered into contours. With `sizes`,
+// the elements follow that map (bounded by the largest size) instead of the surface-size fields.
 MeshResult build_mesh(const GeometrySpec& spec, const SizeMap* sizes = nullptr);
 
 }  // namespace hv

@@ -219,6 +219,12 @@ std::vector<double> hat_residuals(const std::vector<double>& share, int step) {
 // removed smoothing error, on the coaxial, concentric-sphere and sphere-above-plane cases alike.
 constexpr int kFitReach = 2;
 constexpr int kFitDegree = 2;
+// The fit's matrices have at most 2 kFitReach + 2 rows (the vertices of an inner node's window) and
+// live on the stack. Their own types also keep our instantiations of Eigen's QR apart from the
+// MatrixXd ones that libgmsh exports: with those, the dynamic linker bound Gmsh's calls to our copies,
+// whose memory Gmsh then freed with its own allocator (caught by AddressSanitizer).
+using FitMatrix = Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::ColMajor, 2 * kFitReach + 2, kFitDegree + 1>;
+using FitVector = Eigen::Matrix<double, Eigen::Dynamic, 1, Eigen::ColMajor, 2 * kFitReach + 2, 1>;
 
 // The edges [first, last) whose vertex hats inform the flux at chain node k: kFitReach edges on either
 // side, shifted inwards where the face ends so that a node near an end still sees as many.
@@ -252,7 +258,7 @@ double fitted_flux(const FaceHats& hats, const std::vector<double>& hat_residual
   const int power_step = even ? 2 : 1;
   const int terms = std::min(kFitDegree / power_step + 1, equations);
 
-  Eigen::MatrixXd moments = Eigen::MatrixXd::Zero(equations, terms);
+  FitMatrix moments = FitMatrix::Zero(equations, terms);
   const size_t per_edge = edge_rule(kMomentRuleOrder).size();
   for (size_t n = static_cast<size_t>(first) * per_edge; n < static_cast<size_t>(last) * per_edge; ++n) {
     const FaceHats::Sample& sample = hats.samples[n];
@@ -263,8 +269,8 @@ double fitted_flux(const FaceHats& hats, const std::vector<double>& hat_residual
       for (int m = 0; m < terms; ++m) moments(row, m) += sample.weight[end] * std::pow(x, m * power_step);
     }
   }
-  const Eigen::VectorXd data = Eigen::Map<const Eigen::VectorXd>(hat_residual.data() + from, equations);
-  const Eigen::VectorXd coefficients = moments.colPivHouseholderQr().solve(data);
+  const FitVector data = Eigen::Map<const Eigen::VectorXd>(hat_residual.data() + from, equations);
+  const FitVector coefficients = moments.colPivHouseholderQr().solve(data);
   const double x = (hats.node_s[k] - centre) / scale;
   double value = 0.0;
   for (int m = 0; m < terms; ++m) value += coefficients(m) * std::pow(x, m * power_step);

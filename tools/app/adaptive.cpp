@@ -289,13 +289,12 @@ std::unique_ptr<RunOutcome> run_adaptive(const Case& the_case, const StepSolver&
   accuracy.tolerance = spec.adapt.tolerance;
   accuracy.max_steps = spec.adapt.max_steps;
   std::unique_ptr<RunOutcome> outcome;
-  Mesher mesher(geometry);
   SizeMap sizes;
   for (int step = 1;; ++step) {
     if (on_step) on_step("adaptive mesh " + std::to_string(step) + " of at most " + std::to_string(spec.adapt.max_steps));
     const auto start = std::chrono::steady_clock::now();
     if (on_step) on_step("meshing");
-    outcome = solve_step(mesher.mesh(step == 1 ? nullptr : &sizes));
+    outcome = solve_step(build_mesh(geometry, step == 1 ? nullptr : &sizes));
     const Mesh& mesh = outcome->meshed.mesh;
     const ErrorEstimate estimate = zz_error_estimate(mesh, outcome->solution.potential);
     accuracy.steps.push_back(record_step(*outcome, estimate));

@@ -21,7 +21,6 @@ using StepSolver = std::function<std::unique_ptr<RunOutcome>(MeshResult meshed)>
 using OnsetEvaluator = std::function<void(RunOutcome& outcome)>;
 
 // The adaptive loop over `the_case` (whose mesh spec gives order, growth, tolerance and step limit).
-// Builds the geometry once (Mesher) and remeshes it every step.
 // `evaluate_onset` is empty when the case has no onset section. Returns the last mesh's outcome
 // (with its onset when there is one), its results.accuracy filled in: the history of every step,
 // the estimated error of every quantity and whether the tolerance was reached (when not, a warning
